@@ -1,7 +1,9 @@
 //! The double-precision path: `f64` and `Complex64`.
 
+use super::tables::{TableCache, TableKind};
 use super::{ComplexField, RealField};
 use num_complex::Complex64;
+use std::sync::OnceLock;
 
 impl RealField for f64 {
     const MAX_PREC: Option<u32> = Some(53);
@@ -84,7 +86,30 @@ impl RealField for f64 {
     fn abs(&self) -> Self {
         f64::abs(*self)
     }
+    fn from_float(x: &rug::Float) -> Self {
+        x.to_f64()
+    }
+    #[inline]
+    fn with_table<T>(
+        kind: TableKind,
+        _prec: u32,
+        len: usize,
+        build: impl FnOnce(u32, usize) -> Vec<Self>,
+        f: impl FnOnce(&[Self]) -> T,
+    ) -> T {
+        // Double-precision tables are built once, long enough for any 53-bit use.
+        let t = F64_TABLES
+            .get_or_init(TableCache::new)
+            .fixed(kind, F64_TABLE_LEN, |n| build(53, n));
+        debug_assert!(t.len() >= len);
+        f(t)
+    }
 }
+
+/// Entries in each double-precision table: more than any 53-bit series uses.
+pub(crate) const F64_TABLE_LEN: usize = 64;
+
+static F64_TABLES: OnceLock<TableCache<f64>> = OnceLock::new();
 
 impl ComplexField for Complex64 {
     type Real = f64;

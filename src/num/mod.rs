@@ -14,6 +14,8 @@
 
 mod double;
 mod multi;
+#[doc(hidden)]
+pub mod tables;
 
 use std::fmt::Debug;
 use std::ops::{Add, AddAssign, Div, DivAssign, Mul, MulAssign, Neg, Sub, SubAssign};
@@ -82,6 +84,18 @@ pub trait RealField:
     fn tanh(&self) -> Self;
     /// Absolute value.
     fn abs(&self) -> Self;
+    /// Rounded from an MPFR number (exact for `Float`, nearest for `f64`).
+    fn from_float(x: &rug::Float) -> Self;
+    /// Calls `f` with a cached table of at least `len` entries of `kind` at
+    /// precision `prec`, building it with `build(prec, len)` when missing.
+    #[doc(hidden)]
+    fn with_table<T>(
+        kind: tables::TableKind,
+        prec: u32,
+        len: usize,
+        build: impl FnOnce(u32, usize) -> Vec<Self>,
+        f: impl FnOnce(&[Self]) -> T,
+    ) -> T;
 }
 
 /// Complex numbers of either path: [`num_complex::Complex64`] or

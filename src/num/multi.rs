@@ -1,9 +1,11 @@
 //! The arbitrary-precision path: `rug::Float` (MPFR) and `rug::Complex` (MPC).
 
+use super::tables::{TableCache, TableKind};
 use super::{ComplexField, RealField};
 use rug::float::Constant;
 use rug::ops::Pow;
 use rug::{Complex, Float};
+use std::sync::OnceLock;
 
 /// The arbitrary-precision complex type, MPC through `rug`.
 pub type MpComplex = Complex;
@@ -86,7 +88,24 @@ impl RealField for Float {
     fn abs(&self) -> Self {
         self.clone().abs()
     }
+    fn from_float(x: &Float) -> Self {
+        x.clone()
+    }
+    fn with_table<T>(
+        kind: TableKind,
+        prec: u32,
+        len: usize,
+        build: impl FnOnce(u32, usize) -> Vec<Self>,
+        f: impl FnOnce(&[Self]) -> T,
+    ) -> T {
+        let t = MP_TABLES
+            .get_or_init(TableCache::new)
+            .get(kind, prec, len, |n| build(prec, n));
+        f(&t)
+    }
 }
+
+static MP_TABLES: OnceLock<TableCache<Float>> = OnceLock::new();
 
 impl ComplexField for Complex {
     type Real = Float;

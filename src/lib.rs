@@ -18,6 +18,7 @@
 
 #![warn(missing_docs)]
 
+pub mod cli;
 pub mod error;
 pub mod num;
 pub mod precision;

@@ -1,1 +1,17 @@
-fn main() {}
+//! The `dressing` command-line tool; see `dressing --help`.
+
+use clap::Parser;
+
+fn main() -> std::process::ExitCode {
+    let cli = dressing::cli::Cli::parse();
+    match dressing::cli::run(cli) {
+        Ok(out) => {
+            print!("{out}");
+            std::process::ExitCode::SUCCESS
+        }
+        Err(msg) => {
+            eprintln!("error: {msg}");
+            std::process::ExitCode::from(2)
+        }
+    }
+}

@@ -33,14 +33,14 @@
 
 use super::{
     adaptive, asymptotic_radius, check_arg, constant, finish, log2_bernoulli_even,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, reflect_below, rounding_radius, shift_for,
-    show, Core,
+    log2_sec2_half_arg, nonpositive_integer, pole_guard, reflect_below, shift_for, show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
 use crate::num::{exact_integer, ComplexField, RealField};
 use crate::precision::{Approx, Prec, Radius};
 use crate::special::with_even_bernoulli;
+use num_complex::Complex64;
 use rug::Integer;
 
 /// Stirling coefficients `c_k = B_{2k}/(2k(2k−1))`, entry `k−1`.
@@ -194,9 +194,9 @@ fn reflected<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
 /// so the first neglected one is below `2^−56` relative.
 fn near_one_two<C: ComplexField>(z: &C) -> Option<(C, Radius)> {
     let (x, y) = (z.re_f64(), z.im_f64());
-    let (eps, at_one) = if (x - 1.0).hypot(y) < 0.25 {
+    let (eps, at_one) = if (x - 1.0) * (x - 1.0) + y * y < 0.0625 {
         (z.clone().add_i64(-1), true)
-    } else if (x - 2.0).hypot(y) < 1.0 {
+    } else if (x - 2.0) * (x - 2.0) + y * y < 1.0 {
         (z.clone().add_i64(-2), false)
     } else {
         return None;
@@ -280,12 +280,12 @@ pub fn log_gamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
         let (v, rad) = match near_one_two(&zu) {
             Some(vr) => vr,
             None => {
-                let core = log_gamma_core(&zu, 53);
-                let rad = core.trunc + rounding_radius(core.mag_log2, 53, core.ops);
-                (core.value, rad)
+                let (v, e) = double_kernel(Complex64::new(zu.re_f64(), zu.im_f64()));
+                let v = C::from_f64(v.re, v.im, 53);
+                (fix_on_cut(&zu, v, 53), Radius::from_f64(e))
             }
         };
-        finish(v, rad, prec)
+        Approx::new(v, rad, 53)
     } else {
         log_gamma_mp(&zu, prec)
     };
@@ -300,13 +300,18 @@ pub fn log_gamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
 /// part on the negative real axis set exactly to `−π⌈−x⌉` (limit from above).
 pub(crate) fn log_gamma_core<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
     let mut core = upper(z, wp);
-    let zero = C::Real::from_f64(0.0, 53);
-    if z.im().is_zero() && z.re() < zero {
-        let n = exact_ceil_neg(&z.re());
-        let im = C::Real::pi(wp).mul_i64(-n);
-        core.value = C::from_reals(core.value.re(), im);
-    }
+    core.value = fix_on_cut(z, core.value, wp);
     core
+}
+
+/// On the negative real axis, sets `Im log Γ(x) = −π⌈−x⌉` exactly.
+fn fix_on_cut<C: ComplexField>(z: &C, v: C, wp: u32) -> C {
+    if z.im().is_zero() && z.re() < C::Real::from_f64(0.0, 53) {
+        let n = exact_ceil_neg(&z.re());
+        C::from_reals(v.re(), C::Real::pi(wp).mul_i64(-n))
+    } else {
+        v
+    }
 }
 
 /// `⌈−x⌉` for negative non-integer `x` (the number of negative factors in the shift).
@@ -324,6 +329,86 @@ pub(crate) fn exact_ceil_neg<R: RealField>(x: &R) -> i64 {
     } else {
         n
     }
+}
+
+/// The double path away from 1 and 2, specialised to `f64` (`Im z ≥ 0`):
+/// the same shift + Stirling and reflection as the generic code, with the
+/// error estimate kept in plain `f64` and `ln|w|` taken as `½ ln(x² + y²)`,
+/// which avoids the generic path's `hypot`/`log2` bookkeeping (about 3× the
+/// cost; see docs/architecture.md). Returns the value and an estimate of its
+/// absolute error.
+fn double_kernel(z: Complex64) -> (Complex64, f64) {
+    const EPS: f64 = f64::EPSILON;
+    let (x, y) = (z.re, z.im);
+    if x < reflect_below(53) {
+        // ln 2π + iπ(z − ½) − ln(1 − e^{2πiz}) − conj(log Γ(1 − z̄))
+        let m = x.round();
+        let w = Complex64::new(x - m, y);
+        let pi = std::f64::consts::PI;
+        let one_minus_q = if y < 1.0 {
+            let piw = w * pi;
+            let (s, c) = (piw.sin(), piw.cos());
+            (Complex64::new(c.re - s.im, c.im + s.re) * s) * Complex64::new(0.0, -2.0)
+        } else {
+            Complex64::new(1.0, 0.0) - (Complex64::new(0.0, 2.0 * pi) * w).exp()
+        };
+        let (other, e) = double_kernel(Complex64::new(1.0 - x, y));
+        let lin = Complex64::new(-pi * y + (2.0 * pi).ln(), pi * (x - 0.5));
+        let v = lin - one_minus_q.ln() - other.conj();
+        let mag = lin.re.abs() + lin.im.abs();
+        return (v, e + 8.0 * EPS * mag);
+    }
+    let r = shift_for(&z, asymptotic_radius(53));
+    let mut prod = Complex64::new(1.0, 0.0);
+    let mut crossings = 0i64;
+    for kk in 0..r {
+        let before_upper = prod.im >= 0.0;
+        prod *= Complex64::new(x + kk as f64, y);
+        if before_upper && prod.im < 0.0 {
+            crossings += 1;
+        }
+    }
+    let w = Complex64::new(x + r as f64, y);
+    let n2 = w.re * w.re + w.im * w.im;
+    let ln_abs = if n2 > 1e-300 && n2 < 1e300 {
+        0.5 * n2.ln()
+    } else {
+        w.norm().ln()
+    };
+    let ln_w = Complex64::new(ln_abs, w.im.atan2(w.re));
+    let inv_w = w.conj() / n2;
+    let inv_w2 = inv_w * inv_w;
+    let c = stirling_f64();
+    let mut acc = Complex64::new(c[DOUBLE_TERMS - 1], 0.0);
+    for ck in c[..DOUBLE_TERMS - 1].iter().rev() {
+        acc = acc * inv_w2 + ck;
+    }
+    let series = acc * inv_w;
+    let main = (w - 0.5) * ln_w - w;
+    let mut v = main + series + HALF_LN_2PI;
+    let mut mag = main.re.abs() + main.im.abs();
+    if r > 0 {
+        let lp = Complex64::new(0.5 * prod.norm_sqr().ln(), prod.im.atan2(prod.re));
+        v -= lp + Complex64::new(0.0, 2.0 * std::f64::consts::PI * crossings as f64);
+        mag += lp.re.abs() + lp.im.abs() + (2.0 * std::f64::consts::PI * crossings as f64);
+    }
+    // Remainder bound |c_{N+1}| |w|^{−2N−1} sec^{2N+2}(½ arg w) (DLMF 5.11.ii).
+    let abs_w = n2.sqrt();
+    let sec2 = 2.0 * abs_w / (abs_w + w.re);
+    let trunc = c[DOUBLE_TERMS].abs()
+        * abs_w.powi(-(2 * DOUBLE_TERMS as i32) - 1)
+        * sec2.powi(DOUBLE_TERMS as i32 + 1);
+    (v, trunc + EPS * mag * (4.0 + 0.5 * r as f64))
+}
+
+/// ½ ln 2π.
+const HALF_LN_2PI: f64 = 0.918_938_533_204_672_7;
+
+/// The Stirling coefficients in `f64`, `DOUBLE_TERMS + 1` of them (the last
+/// bounds the remainder).
+fn stirling_f64() -> &'static [f64] {
+    static T: std::sync::OnceLock<Vec<f64>> = std::sync::OnceLock::new();
+    T.get_or_init(|| build_stirling::<f64>(53, DOUBLE_TERMS + 1))
 }
 
 fn log_gamma_mp<C: ComplexField>(z: &C, prec: Prec) -> Approx<C> {

@@ -1,0 +1,145 @@
+//! Bad input to the special functions: each case returns a typed error whose
+//! message says what is wrong and what to do; none panics, none returns NaN.
+
+use dressing::special::*;
+use dressing::{Error, Prec};
+use num_complex::Complex64;
+use rug::Complex;
+
+#[test]
+fn nan_and_infinite_arguments() {
+    let p = Prec::DOUBLE;
+    for z in [
+        Complex64::new(f64::NAN, 0.0),
+        Complex64::new(0.5, f64::INFINITY),
+        Complex64::new(f64::NEG_INFINITY, 1.0),
+    ] {
+        for (name, r) in [
+            ("log_gamma", log_gamma(&z, p).map(|_| ())),
+            ("gamma", gamma(&z, p).map(|_| ())),
+            ("rgamma", rgamma(&z, p).map(|_| ())),
+            ("digamma", digamma(&z, p).map(|_| ())),
+            ("polygamma", polygamma(2, &z, p).map(|_| ())),
+            ("log_barnes_g", log_barnes_g(&z, p).map(|_| ())),
+            (
+                "hurwitz_zeta",
+                hurwitz_zeta(&Complex64::new(2.0, 0.0), &z, p).map(|_| ()),
+            ),
+        ] {
+            let e = r.unwrap_err();
+            assert!(matches!(e, Error::NonFinite { .. }), "{name}: {e:?}");
+            assert!(e.to_string().contains("NaN or infinite"), "{name}: {e}");
+        }
+    }
+    let nan = Complex::with_val(64, (f64::NAN, 0.0));
+    assert!(matches!(
+        log_gamma(&nan, Prec::digits(30).unwrap()),
+        Err(Error::NonFinite { .. })
+    ));
+}
+
+#[test]
+fn zero_and_absurd_precision() {
+    let e = Prec::digits(0).unwrap_err();
+    assert_eq!(e, Error::ZeroPrecision);
+    assert!(e.to_string().contains("at least 1"));
+    assert!(matches!(Prec::from_bits(0), Err(Error::ZeroPrecision)));
+    let e = Prec::digits(10_000_000).unwrap_err();
+    assert!(matches!(e, Error::PrecisionTooHigh { .. }));
+    assert!(e.to_string().contains("ask for fewer digits"), "{e}");
+    assert!(Prec::from_bits(Prec::MAX_BITS as u64).is_ok());
+    assert!(Prec::from_bits(Prec::MAX_BITS as u64 + 1).is_err());
+}
+
+#[test]
+fn double_path_refuses_more_than_53_bits() {
+    let e = log_gamma(&Complex64::new(1.5, 0.0), Prec::digits(30).unwrap()).unwrap_err();
+    assert!(matches!(
+        e,
+        Error::DoubleTooPrecise {
+            requested_bits: 100
+        }
+    ));
+    assert!(e.to_string().contains("rug::Complex"), "{e}");
+}
+
+#[test]
+fn poles_are_reported_as_poles() {
+    let p = Prec::DOUBLE;
+    for n in [0.0, -1.0, -7.0, -100.0] {
+        let z = Complex64::new(n, 0.0);
+        let e = gamma(&z, p).unwrap_err();
+        assert!(matches!(e, Error::Pole { order: 1, .. }), "{e:?}");
+        assert!(e.to_string().contains("pole of order 1"), "{e}");
+        assert!(matches!(
+            log_gamma(&z, p),
+            Err(Error::Pole { order: 1, .. })
+        ));
+        // ψ⁽ⁿ⁾ has a pole of order n+1 (DLMF 5.15.1 with 5.7.6).
+        assert!(matches!(digamma(&z, p), Err(Error::Pole { order: 1, .. })));
+        assert!(matches!(
+            polygamma(3, &z, p),
+            Err(Error::Pole { order: 4, .. })
+        ));
+        // 1/Γ is entire: an exact zero, not an error.
+        let r = rgamma(&z, p).unwrap();
+        assert_eq!(r.value, Complex64::new(0.0, 0.0));
+        assert!(r.radius.is_zero());
+    }
+    let mp = Complex::with_val(200, -3);
+    assert!(matches!(
+        gamma(&mp, Prec::digits(50).unwrap()),
+        Err(Error::Pole { order: 1, .. })
+    ));
+}
+
+#[test]
+fn barnes_zeros_and_far_left() {
+    // G has a zero of order n+1 at −n (DLMF 5.17.2 with 5.17.1).
+    for (n, order) in [(0.0, 1), (-1.0, 2), (-4.0, 5)] {
+        let e = log_barnes_g(&Complex64::new(n, 0.0), Prec::DOUBLE).unwrap_err();
+        assert!(
+            matches!(e, Error::Zero { order: o, .. } if o == order),
+            "{e:?}"
+        );
+        let g = barnes_g(&Complex64::new(n, 0.0), Prec::DOUBLE).unwrap();
+        assert_eq!(g.value, Complex64::new(0.0, 0.0));
+    }
+    let e = log_barnes_g(&Complex64::new(-2.0e6, 0.5), Prec::DOUBLE).unwrap_err();
+    assert!(matches!(e, Error::Domain { .. }));
+    assert!(e.to_string().contains("recurrence"), "{e}");
+}
+
+#[test]
+fn hurwitz_poles_and_domain() {
+    let p = Prec::DOUBLE;
+    let one = Complex64::new(1.0, 0.0);
+    assert!(matches!(
+        hurwitz_zeta(&one, &one, p),
+        Err(Error::Pole { order: 1, .. })
+    ));
+    let e = hurwitz_zeta(&Complex64::new(3.0, 0.0), &Complex64::new(-2.0, 0.0), p).unwrap_err();
+    assert!(matches!(e, Error::Pole { order: 3, .. }), "{e:?}");
+    let e = hurwitz_zeta(&Complex64::new(2.5, 0.0), &Complex64::new(-0.5, 0.0), p).unwrap_err();
+    assert!(matches!(e, Error::Domain { .. }));
+    assert!(e.to_string().contains("Re a > 0"), "{e}");
+}
+
+#[test]
+fn overflow_on_the_double_path() {
+    let e = gamma(&Complex64::new(200.0, 0.0), Prec::DOUBLE).unwrap_err();
+    assert!(matches!(e, Error::Overflow { .. }));
+    assert!(e.to_string().contains("log_gamma"), "{e}");
+    // The arbitrary path has the exponent range for it: Γ(200) = 199!.
+    let g = gamma(&Complex::with_val(64, 200), Prec::digits(15).unwrap()).unwrap();
+    let want = rug::Float::with_val(64, rug::Integer::from(rug::Integer::factorial(199)));
+    let rel = ((g.value.real().clone() - &want) / &want).abs();
+    assert!(rel.to_f64() < 1e-15);
+}
+
+#[test]
+fn polygamma_order_cap() {
+    let e = polygamma(10_000, &Complex64::new(1.5, 0.0), Prec::DOUBLE).unwrap_err();
+    assert!(matches!(e, Error::Domain { .. }));
+    assert!(e.to_string().contains("order"), "{e}");
+}

@@ -21,7 +21,7 @@
 
 use super::{
     adaptive, asymptotic_radius, check_arg, constant, finish, log2_bernoulli_even,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, shift_for, show, Core,
+    log2_sec2_half_arg, nonpositive_integer, pole_guard, real_poly_at, shift_for, show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
@@ -166,13 +166,7 @@ fn eval<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
         wp,
         n_terms,
         build_coeffs::<C::Real>,
-        |c| {
-            let mut acc = C::from_reals(zero.clone(), zero.clone());
-            for ck in c[..n_terms].iter().rev() {
-                acc = (acc.add_real(ck)) * &inv_v2;
-            }
-            acc
-        },
+        |c| real_poly_at(&c[..n_terms], &inv_v2) * &inv_v2,
     );
     let ln_2pi: C::Real = constant(k::LN_2PI, wp);
     let zp: C::Real = constant(k::ZETA_PRIME_MINUS_ONE, wp);

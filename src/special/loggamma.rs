@@ -15,7 +15,7 @@
 //! (DLMF 5.11.1). Its remainder is bounded by
 //! `|c_{N+1}| / |w|^{2N+1} · sec^{2N+2}(½ arg w)` (DLMF 5.11.ii, with
 //! `c_k = B_{2k}/(2k(2k−1))`), which chooses `N`. For `Re z < −T` (T = 8 on
-//! the double path, 5 on the arbitrary one) the reflection formula
+//! the double path, max(40, 0.075·wp) on the arbitrary one, where it starts to pay) the reflection formula
 //! `log Γ(z) = ln 2π + iπ(z − ½) − ln(1 − e^{2πiz}) − log Γ(1 − z)` for
 //! `Im z ≥ 0` is used; it follows from DLMF 5.5.3 with the branch of
 //! `ln(1 − e^{2πiz})` (argument of real part > 0) fixed by continuity from
@@ -33,7 +33,8 @@
 
 use super::{
     adaptive, asymptotic_radius, check_arg, constant, finish, log2_bernoulli_even,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, reflect_below, shift_for, show, Core,
+    log2_sec2_half_arg, nonpositive_integer, pole_guard, real_poly_at, reflect_below, shift_for,
+    show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
@@ -89,17 +90,25 @@ fn upper<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
 
 fn shifted_stirling<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
     let r = shift_for(z, asymptotic_radius(wp));
-    // Running product Π_{k<r} (z+k), counting crossings of the negative real
-    // axis: each factor has argument in [0, π), so a crossing shows as the
-    // imaginary part turning from ≥ 0 to < 0.
+    // Π_{k<r} (z+k), two factors at a time:
+    // (z+k)(z+k+1) = z² + (2k+1)z + k(k+1) costs one full multiplication per
+    // pair. The branch of Σ ln(z+k) is settled from the f64 arguments.
     let zero = C::Real::from_f64(0.0, wp);
     let mut prod = C::from_i64(1, wp);
-    let mut crossings = 0i64;
-    for kk in 0..r {
-        let before_upper = prod.im() >= zero;
-        prod *= &z.clone().add_i64(kk);
-        if before_upper && prod.im() < zero {
-            crossings += 1;
+    let mut arg_sum = 0.0f64;
+    let (zx, zy) = (z.re_f64(), z.im_f64());
+    let z2 = z.clone().square();
+    let mut kk = 0i64;
+    while kk < r {
+        arg_sum += zy.atan2(zx + kk as f64);
+        if kk + 1 < r {
+            arg_sum += zy.atan2(zx + (kk + 1) as f64);
+            let pair = (z2.clone() + &z.clone().mul_i64(2 * kk + 1)).add_i64(kk * (kk + 1));
+            prod *= &pair;
+            kk += 2;
+        } else {
+            prod *= &z.clone().add_i64(kk);
+            kk += 1;
         }
     }
     let w = z.clone().add_i64(r);
@@ -128,13 +137,7 @@ fn shifted_stirling<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
         wp,
         n_terms,
         build_stirling::<C::Real>,
-        |c| {
-            let mut acc = C::from_reals(c[n_terms - 1].clone(), zero.clone());
-            for ck in c[..n_terms - 1].iter().rev() {
-                acc = (acc * &inv_w2).add_real(ck);
-            }
-            acc * &inv_w
-        },
+        |c| real_poly_at(&c[..n_terms], &inv_w2) * &inv_w,
     );
     let half_ln_2pi: C::Real = constant(k::HALF_LN_2PI, wp);
     let pi: C::Real = constant(k::PI, wp);
@@ -143,9 +146,12 @@ fn shifted_stirling<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
     let mag_log2 = main.log2_abs().max(0.0);
     let mut value = (main + &series).add_real(&half_ln_2pi);
     let mut ops = n_terms + 8;
+    let mut mag_log2 = mag_log2;
     if r > 0 {
         let ln_p = prod.ln();
-        let turn = C::from_reals(zero.clone(), pi.mul_i64(2 * crossings));
+        let turns = ((arg_sum - ln_p.im_f64()) / (2.0 * std::f64::consts::PI)).round() as i64;
+        let turn = C::from_reals(zero.clone(), pi.mul_i64(2 * turns));
+        mag_log2 = mag_log2.max(ln_p.log2_abs());
         value = value - &ln_p - &turn;
         ops += r as usize;
     }

@@ -16,7 +16,8 @@
 
 use super::{
     adaptive, asymptotic_radius, check_arg, constant, log2_bernoulli_even, log2_factorial,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, reflect_below, shift_for, show, Core,
+    log2_sec2_half_arg, nonpositive_integer, pole_guard, real_poly_at, reflect_below, shift_for,
+    show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
@@ -123,20 +124,13 @@ fn shifted<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
     let zero = C::Real::from_f64(0.0, wp);
     // Σ_k B_{2k}/(2k)! · (2k+n−1)! · w^{−2k} by Horner in w^{−2}, with the
     // integer factor (2k+n−1)! applied per term.
-    let horner = |coef: &dyn Fn(usize) -> C::Real| {
-        let mut acc = C::from_reals(zero.clone(), zero.clone());
-        for kk in (1..=n_terms).rev() {
-            acc = (acc * &inv_w2).add_real(&coef(kk));
-        }
-        acc * &inv_w2
-    };
     let series = if n == 0 {
         C::Real::with_table(
             TableKind::StirlingDigamma,
             wp,
             n_terms,
             build_digamma_coeffs::<C::Real>,
-            |c| horner(&|kk| c[kk - 1].clone()),
+            |c| real_poly_at(&c[..n_terms], &inv_w2) * &inv_w2,
         )
     } else {
         C::Real::with_table(
@@ -145,10 +139,14 @@ fn shifted<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
             n_terms,
             super::hurwitz::build_em::<C::Real>,
             |c| {
-                horner(&|kk| {
-                    let f = Integer::from(Integer::factorial(2 * kk as u32 + n - 1));
-                    c[kk - 1].clone() * &C::Real::from_rational(&Rational::from(f), wp)
-                })
+                // B_{2k}/(2k)! · (2k+n−1)!
+                let coef: Vec<C::Real> = (1..=n_terms)
+                    .map(|kk| {
+                        let f = Integer::from(Integer::factorial(2 * kk as u32 + n - 1));
+                        c[kk - 1].clone() * &C::Real::from_rational(&Rational::from(f), wp)
+                    })
+                    .collect();
+                real_poly_at(&coef, &inv_w2) * &inv_w2
             },
         )
     };

@@ -65,6 +65,15 @@ pub enum Error {
         /// What to change.
         hint: String,
     },
+    /// An infinite product (or sum) does not converge.
+    Divergent {
+        /// The failed condition, e.g. `Σ n·s = 0`.
+        condition: String,
+        /// Its value.
+        value: String,
+        /// What it means and what to change.
+        hint: String,
+    },
     /// An argument outside the documented domain.
     Domain {
         /// The function that was called.
@@ -124,6 +133,14 @@ impl fmt::Display for Error {
                 "{what} did not reach the requested accuracy (best error estimate {achieved}); {hint}"
             ),
             Error::Domain { function, message } => write!(f, "{function}: {message}"),
+            Error::Divergent {
+                condition,
+                value,
+                hint,
+            } => write!(
+                f,
+                "the infinite product diverges: the condition {condition} fails (its value is {value}); {hint}"
+            ),
         }
     }
 }

@@ -20,6 +20,7 @@
 
 pub mod cli;
 pub mod error;
+pub mod factor;
 pub mod num;
 pub mod precision;
 pub mod quadrature;

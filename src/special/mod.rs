@@ -189,9 +189,17 @@ pub(crate) fn log2_sec2_half_arg<C: ComplexField>(w: &C) -> f64 {
 }
 
 /// The shift `r ≥ 0` that takes `z` to `Re(z + r) ≥ 0` and `|z + r| ≥ radius`.
+///
+/// Beyond 53 bits, where the series are long, points with `|Im z|` below
+/// three radii are also shifted to `Re(z + r) ≥ |Im z|/2`: near the imaginary
+/// axis the remainder factor `sec^{2N}(½ arg w)` grows as fast as the terms
+/// fall, and the series would never reach the working precision.
 pub(crate) fn shift_for<C: ComplexField>(z: &C, radius: f64) -> i64 {
     let (x, y) = (z.re_f64(), z.im_f64().abs());
     let mut r = if x < 0.0 { (-x).ceil() } else { 0.0 };
+    if radius > 8.0 && y < 3.0 * radius && x + r < 0.5 * y {
+        r = (0.5 * y - x).ceil();
+    }
     if y < radius {
         let need = (radius * radius - y * y).sqrt() - x;
         if need > r {
@@ -247,4 +255,22 @@ pub(crate) fn real_poly_at<C: ComplexField>(c: &[C::Real], u: &C) -> C {
         b = cj.clone() - &(s.clone() * &t);
     }
     u.clone().mul_real(&a).add_real(&b)
+}
+
+/// On the double path, if the estimated relative error exceeds `2^−46`
+/// (about 1.4e-14), recomputes with `mp` on MPFR at 53 bits (plus the
+/// routine's own guard bits) and rounds back to `f64`. Otherwise returns `r`.
+pub(crate) fn refine_double<C: ComplexField>(
+    r: crate::precision::Approx<C>,
+    z: &C,
+    mp: impl Fn(&rug::Complex, Prec) -> Result<crate::precision::Approx<rug::Complex>>,
+) -> Result<crate::precision::Approx<C>> {
+    if C::MAX_PREC.is_none() || r.radius.log2() - r.value.log2_abs() <= -46.0 {
+        return Ok(r);
+    }
+    let zm = rug::Complex::with_val(53, (z.re_f64(), z.im_f64()));
+    let m = mp(&zm, Prec::DOUBLE)?;
+    let v = C::from_f64(m.value.real().to_f64(), m.value.imag().to_f64(), 53);
+    let rad = m.radius + Radius::from_log2(v.log2_abs() - 53.0);
+    Ok(crate::precision::Approx::new(v, rad, 53))
 }

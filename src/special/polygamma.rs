@@ -81,7 +81,11 @@ pub fn polygamma<C: ComplexField>(n: u32, z: &C, prec: Prec) -> Result<Approx<C>
     }
     // Factorials and powers of |z| add to the magnitudes in play.
     let guard = 24 + pole_guard(z) + (log2_factorial(n as f64) / 8.0) as u32;
-    Ok(adaptive(prec, guard, |wp| eval(n, &z.with_prec(wp), wp)))
+    let r = adaptive(prec, guard, |wp| eval(n, &z.with_prec(wp), wp));
+    // Double path: where the shift or reflection cancelled more than the
+    // 1e-14 target allows (high orders near the negative axis), redo the
+    // point on MPFR at 53 bits plus guard.
+    super::refine_double(r, z, |zm, p| polygamma(n, zm, p))
 }
 
 fn eval<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
@@ -173,12 +177,17 @@ fn shifted<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
     }
     // Recurrence: + (−1)^{n+1} n! Σ_{k<r} (z+k)^{−n−1}
     let mut ops = n_terms * 2 + 8;
+    let mut recurrence_mag = f64::NEG_INFINITY;
     if r > 0 {
         let mut sum = C::from_reals(zero.clone(), zero.clone());
+        let mut largest = f64::NEG_INFINITY;
         for kk in 0..r {
-            sum += &z.clone().add_i64(kk).powi(-(n as i64) - 1);
+            let t = z.clone().add_i64(kk).powi(-(n as i64) - 1);
+            largest = largest.max(t.log2_abs());
+            sum += &t;
         }
         let sum = sum.mul_real(&nfact);
+        recurrence_mag = largest + nfact.log2_abs();
         value = if n % 2 == 1 {
             value + &sum
         } else {
@@ -186,7 +195,7 @@ fn shifted<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
         };
         ops += r as usize * (2 + (32 - (n + 1).leading_zeros()) as usize);
     }
-    let mag = mag_log2.max(value.log2_abs());
+    let mag = mag_log2.max(value.log2_abs()).max(recurrence_mag);
     Core {
         value,
         trunc,
@@ -220,7 +229,37 @@ fn reflected<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
     let m = z.re_f64().round() as i64;
     let w = z.clone().add_i64(-m);
     let pi: C::Real = constant(k::PI, wp);
-    let (s, c) = w.mul_real(&pi).sin_cos();
+    let y = z.im_f64();
+    let bits_per_term = 2.0 * std::f64::consts::PI * y.abs() * std::f64::consts::LOG2_E;
+    let use_q = if wp <= 53 {
+        y.abs() >= 0.5
+    } else {
+        bits_per_term >= wp as f64 / 40.0
+    };
+    let (cot_term, mag, ops) = if use_q {
+        cot_derivative_by_q(n, &w, &pi, wp)
+    } else {
+        cot_derivative_by_poly(n, &w, &pi, wp)
+    };
+    let other = shifted(n, &(C::from_i64(1, wp) - z), wp);
+    let refl = if n % 2 == 0 {
+        other.value.clone()
+    } else {
+        -other.value.clone()
+    };
+    let mag_log2 = other.mag_log2.max(mag);
+    Core {
+        value: refl - &cot_term,
+        trunc: other.trunc,
+        mag_log2,
+        ops: other.ops + ops,
+    }
+}
+
+/// `π dⁿ/dzⁿ cot(πz)` as `π^{n+1} Pₙ(cot πw)` (w = z − m), with the size of
+/// its largest term (for the cancellation check) and an operation count.
+fn cot_derivative_by_poly<C: ComplexField>(n: u32, w: &C, pi: &C::Real, wp: u32) -> (C, f64, usize) {
+    let (s, c) = w.clone().mul_real(pi).sin_cos();
     let cot = c / &s;
     let poly = cot_derivative_poly(n);
     let mut acc = C::from_i64(0, wp);
@@ -233,23 +272,53 @@ fn reflected<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
             acc = acc.add_real(&C::Real::from_rational(&Rational::from(a), wp));
         }
     }
-    // π^{n+1} Pₙ(cot πz)
     let mut pin1 = pi.clone();
     for _ in 0..n {
-        pin1 *= &pi;
+        pin1 *= pi;
     }
-    let cot_term = acc.mul_real(&pin1);
-    let other = shifted(n, &(C::from_i64(1, wp) - z), wp);
-    let refl = if n % 2 == 0 {
-        other.value.clone()
-    } else {
-        -other.value.clone()
-    };
-    let mag_log2 = other.mag_log2.max(mag + (n + 1) as f64 * pi.log2_abs());
-    Core {
-        value: refl - &cot_term,
-        trunc: other.trunc,
-        mag_log2,
-        ops: other.ops + poly.len() * 2 + 10,
+    let mag = mag + (n + 1) as f64 * pi.log2_abs();
+    (acc.mul_real(&pin1), mag, poly.len() * 2 + 10)
+}
+
+/// `π dⁿ/dzⁿ cot(πz)` away from the real axis from
+/// `cot(πz) = ∓i ∓ 2i Σ_{m≥1} q^m`, `q = e^{±2πiz}` (sign of Im z), so
+/// `π dⁿ/dzⁿ cot(πz) = ∓2πi (±2πi)ⁿ Σ_{m≥1} mⁿ q^m` (plus `∓πi` for n = 0):
+/// no cancellation, no overflow however large |Im z|.
+fn cot_derivative_by_q<C: ComplexField>(n: u32, w: &C, pi: &C::Real, wp: u32) -> (C, f64, usize) {
+    let upper = w.im_f64() > 0.0;
+    let sign: i64 = if upper { 1 } else { -1 };
+    // q = e^{±2πiw}
+    let q = w.clone().mul_real(pi).mul_i().mul_i64(2 * sign).exp();
+    let log2_q = q.log2_abs();
+    let mut sum = C::from_i64(0, wp);
+    let mut qm = q.clone();
+    let mut m = 1u64;
+    let mut first = f64::NEG_INFINITY;
+    loop {
+        // mⁿ exactly, then rounded once.
+        let mn = Integer::from(Integer::u_pow_u(m as u32, n));
+        let t = qm.clone().mul_real(&C::Real::from_rational(&Rational::from(mn), wp));
+        if m == 1 {
+            first = t.log2_abs();
+        }
+        sum += &t;
+        let next = (m as f64 + 1.0).log2() * n as f64 + (m + 1) as f64 * log2_q;
+        if next < first - wp as f64 - 8.0 || !log2_q.is_finite() || m > 100_000 {
+            break;
+        }
+        qm *= &q;
+        m += 1;
     }
+    // factor ∓2πi (±2πi)ⁿ
+    let two_pi = pi.clone().mul_i64(2);
+    let mut factor = C::from_reals(C::Real::from_f64(0.0, wp), two_pi.clone().mul_i64(-sign)); // ∓2πi
+    for _ in 0..n {
+        factor = factor.mul_real(&two_pi).mul_i().mul_i64(sign);
+    }
+    let mut v = sum * &factor;
+    if n == 0 {
+        v += &C::from_reals(C::Real::from_f64(0.0, wp), pi.clone().mul_i64(-sign));
+    }
+    let mag = v.log2_abs().max(first + factor.log2_abs());
+    (v, mag, (m as usize) * 3 + 10)
 }

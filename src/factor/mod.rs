@@ -1,0 +1,14 @@
+//! Scalar factors and their representations.
+//!
+//! A factor is built from pieces; the first piece type is the infinite
+//! product of gamma functions, [`GammaProduct`], with two independent
+//! representations (product with analytic tail; Malmstén integral with
+//! continuation) so that each value can be checked by the other.
+
+mod coef;
+mod gamma_product;
+
+pub use coef::Coef;
+pub use gamma_product::{
+    Condition, Convergence, FactorValue, GammaProduct, GammaTerm, Method, Representation, Scale,
+};

@@ -113,7 +113,11 @@ fn live_against_mpmath() {
             ("polygamma", 3),
         ] {
             // Double path (the order goes with polygamma only).
-            let extra = if func == "polygamma" { format!(" {n}") } else { String::new() };
+            let extra = if func == "polygamma" {
+                format!(" {n}")
+            } else {
+                String::new()
+            };
             let line = format!("{func} 20 {x:.24} {y:.24}{extra}");
             let (re, im) = o.ask(&line);
             let want = complex(&re, &im, 200);

@@ -258,7 +258,12 @@ fn reflected<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
 
 /// `π dⁿ/dzⁿ cot(πz)` as `π^{n+1} Pₙ(cot πw)` (w = z − m), with the size of
 /// its largest term (for the cancellation check) and an operation count.
-fn cot_derivative_by_poly<C: ComplexField>(n: u32, w: &C, pi: &C::Real, wp: u32) -> (C, f64, usize) {
+fn cot_derivative_by_poly<C: ComplexField>(
+    n: u32,
+    w: &C,
+    pi: &C::Real,
+    wp: u32,
+) -> (C, f64, usize) {
     let (s, c) = w.clone().mul_real(pi).sin_cos();
     let cot = c / &s;
     let poly = cot_derivative_poly(n);
@@ -297,7 +302,9 @@ fn cot_derivative_by_q<C: ComplexField>(n: u32, w: &C, pi: &C::Real, wp: u32) ->
     loop {
         // mⁿ exactly, then rounded once.
         let mn = Integer::from(Integer::u_pow_u(m as u32, n));
-        let t = qm.clone().mul_real(&C::Real::from_rational(&Rational::from(mn), wp));
+        let t = qm
+            .clone()
+            .mul_real(&C::Real::from_rational(&Rational::from(mn), wp));
         if m == 1 {
             first = t.log2_abs();
         }

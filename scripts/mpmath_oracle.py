@@ -35,40 +35,9 @@ import sys
 import mpmath
 from mpmath import mp, mpc, mpf
 
-REFLECT_BELOW = -1000
-_COT_POLYS = {}
-
-
-def cot_deriv_poly(n):
-    """Coefficients (ascending) of P_n with d^n/dx^n cot x = P_n(cot x)."""
-    if n == 0:
-        return [0, 1]
-    if n not in _COT_POLYS:
-        p = cot_deriv_poly(n - 1)
-        dp = [k * p[k] for k in range(1, len(p))]
-        q = [0] * (len(dp) + 2)
-        for k, c in enumerate(dp):
-            q[k] -= c
-            q[k + 2] -= c
-        while len(q) > 1 and q[-1] == 0:
-            q.pop()
-        _COT_POLYS[n] = q          # integer coefficients
-    return _COT_POLYS[n]
-
-
-def polygamma_ref(n, z):
-    if n == 0:
-        return mpmath.digamma(z)
-    if mpf(z.real) >= REFLECT_BELOW:
-        return mpmath.polygamma(n, z)
-    extra = int(n * math.log10(max(1.0, float(abs(z))))) + 30
-    with mp.workdps(mp.dps + extra):
-        c = mpmath.cospi(z) / mpmath.sinpi(z)
-        val = mpc(0)
-        for coef in reversed(cot_deriv_poly(n)):
-            val = val * c + coef
-        refl = -mpmath.pi ** (n + 1) * val
-    return (-1) ** n * mpmath.polygamma(n, 1 - z) + refl
+# One implementation of the reference polygamma (with its reflection branch
+# for Re z < -1000) serves both the tables and this oracle.
+from gen_reference import polygamma_ref  # noqa: E402
 
 
 def sci(x, n):

@@ -12,40 +12,12 @@ use dressing::{Error, Prec};
 use rug::float::Constant;
 use rug::{Complex, Float};
 
-/// The sine-Gordon soliton–soliton scalar factor S₀(θ) as a gamma product
-/// in z = θ/(iπ), with p = π/ξ:
-/// S₀ = −Π_k [Γ(1+2pk−pz) Γ(2p+2pk−pz) Γ(1+p+2pk+pz) Γ(p+2pk+pz)]
-///          / [Γ(1+2pk+pz) Γ(2p+2pk+pz) Γ(1+p+2pk−pz) Γ(p+2pk−pz)].
-/// Derived here from the integral representation below by expanding
-/// sinh/cosh in exponentials and applying Malmstén's formula term by term
-/// (docs/math.md §5); the numbers, not the derivation, are the check.
+/// The sine-Gordon soliton–soliton factor as a gamma product
+/// (`factor::known::sine_gordon_soliton`; derived from the integral below by
+/// Malmstén's formula, docs/math.md §6): the numbers, not the derivation,
+/// are the check.
 fn sine_gordon(xi: f64) -> GammaProduct {
-    let p = move |prec: u32| Float::with_val(prec, Constant::Pi) / Float::with_val(prec, xi);
-    let c = |f: fn(Float) -> Float, label: &str| {
-        let pp = p;
-        Coef::computed(label, move |prec| f(pp(prec)))
-    };
-    let two_p = || c(|p| p * 2u32, "2p");
-    let t = |b: Coef, s: Coef, n: i64| GammaTerm::new(two_p(), b, s, n);
-    let one = || Coef::integer(1);
-    let pc = || c(|p| p, "p");
-    let mp = || c(|p| -p, "-p");
-    let one_p = || c(|p| p + 1u32, "1+p");
-    GammaProduct::new(
-        vec![
-            t(one(), mp(), 1),
-            t(two_p(), mp(), 1),
-            t(one_p(), pc(), 1),
-            t(pc(), pc(), 1),
-            t(one(), pc(), -1),
-            t(two_p(), pc(), -1),
-            t(one_p(), mp(), -1),
-            t(pc(), mp(), -1),
-        ],
-        Scale::OverIPi,
-        None,
-    )
-    .unwrap()
+    dressing::factor::known::sine_gordon_soliton(xi).unwrap()
 }
 
 /// −i ∫₀^∞ (dt/t) sinh(t(π−ξ)/2) sin(θt) / (sinh(ξt/2) cosh(πt/2)): log of

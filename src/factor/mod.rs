@@ -7,6 +7,7 @@
 
 mod coef;
 mod gamma_product;
+pub mod known;
 
 pub use coef::Coef;
 pub use gamma_product::{

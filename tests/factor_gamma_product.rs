@@ -153,32 +153,86 @@ fn divergent_products_are_rejected_with_the_failed_condition() {
 }
 
 #[test]
-#[ignore]
-fn debug_precision() {
-    let f = sine_gordon(0.8);
-    let theta = Complex::with_val(256, (0.7, 0.2));
+fn poles_and_zeros_are_reported_with_their_order() {
+    // −S₀ has Γ(1 − pz) in the numerator: a pole at z = 1/p, θ = iξ, and
+    // Γ(1 + pz) in the denominator: a zero at θ = −iξ (no other gamma of the
+    // product is singular there; common practice: read off the arguments).
+    let xi = 2.0 * std::f64::consts::PI / 7.0;
+    let f = sine_gordon(xi);
     for m in [Method::Product, Method::Integral] {
-        let a = f.log_value(&theta, Prec::digits(50).unwrap(), m).unwrap();
-        let b = f.log_value(&theta, Prec::digits(80).unwrap(), m).unwrap();
-        let d = Complex::with_val(300, &a.log.value - &b.log.value);
-        eprintln!(
-            "{m:?}: {} rad {} err {:e}",
-            a.representation,
-            a.log.radius,
-            d.abs().real().to_f64()
-        );
+        let e = f
+            .log_value(&num_complex::Complex64::new(0.0, xi), Prec::DOUBLE, m)
+            .unwrap_err();
+        assert!(matches!(e, Error::Pole { order: 1, .. }), "{e:?}");
+        assert!(e.to_string().contains("pole of order 1 at θ ="), "{e}");
+        let th = Complex::with_val(300, (0.0, xi));
+        let e = f.log_value(&th, Prec::digits(60).unwrap(), m).unwrap_err();
+        assert!(matches!(e, Error::Pole { order: 1, .. }), "{e:?}");
+        let e = f
+            .log_value(&num_complex::Complex64::new(0.0, -xi), Prec::DOUBLE, m)
+            .unwrap_err();
+        assert!(matches!(e, Error::Zero { order: 1, .. }), "{e:?}");
     }
-    let l50 = zz_integral(0.8, &theta, 50);
-    let l80 = zz_integral(0.8, &theta, 80);
-    let b = f
-        .log_value(&theta, Prec::digits(80).unwrap(), Method::Product)
-        .unwrap();
-    eprintln!(
-        "zz50 err {:e}, zz80 vs prod80 {:e}",
-        Complex::with_val(300, &l50 - &l80).abs().real().to_f64(),
-        Complex::with_val(300, &b.log.value - &l80)
-            .abs()
-            .real()
-            .to_f64()
+    // Next to the pole the value is finite and large, not an error.
+    let near = num_complex::Complex64::new(0.0, xi + 1e-9);
+    let v = f.log_value(&near, Prec::DOUBLE, Method::Product).unwrap();
+    assert!(v.log.value.re > 15.0);
+}
+
+#[test]
+fn bad_input_to_gamma_products() {
+    let t = |a: i64, b: i64, s: i64, n: i64| {
+        GammaTerm::new(Coef::integer(a), Coef::integer(b), Coef::integer(s), n)
+    };
+    // A non-positive step.
+    let e = GammaProduct::new(vec![t(0, 1, 1, 1), t(0, 1, -1, -1)], Scale::Unit, None).unwrap_err();
+    assert!(
+        matches!(e, Error::Domain { .. }) && e.to_string().contains("positive"),
+        "{e}"
     );
+    // No terms.
+    assert!(matches!(
+        GammaProduct::new(vec![], Scale::Unit, None),
+        Err(Error::Domain { .. })
+    ));
+    // A non-finite rapidity.
+    let f = sine_gordon(1.0);
+    let e = f
+        .log_value(
+            &num_complex::Complex64::new(f64::NAN, 0.0),
+            Prec::DOUBLE,
+            Method::Auto,
+        )
+        .unwrap_err();
+    assert!(matches!(e, Error::NonFinite { .. }), "{e:?}");
+    // The integral form where steps differ: a clear refusal. This product
+    // (steps 1 and 2, normalised at 0) satisfies every normalised condition:
+    // Σ n s = 0, Σ n s ln a = 0, Σ n s²/a = 2 − 4/2 = 0, Σ n s(2b−1)/a = 0.
+    let g = GammaProduct::new(
+        vec![
+            t(1, 1, 1, 1),
+            t(1, 1, -1, 1),
+            t(2, 1, 1, -2),
+            t(2, 1, -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap();
+    let e = g
+        .log_value(
+            &num_complex::Complex64::new(0.1, 0.0),
+            Prec::DOUBLE,
+            Method::Integral,
+        )
+        .unwrap_err();
+    assert!(e.to_string().contains("common step"), "{e}");
+    // The product form still works there.
+    assert!(g
+        .log_value(
+            &num_complex::Complex64::new(0.1, 0.0),
+            Prec::DOUBLE,
+            Method::Product
+        )
+        .is_ok());
 }

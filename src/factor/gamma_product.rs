@@ -374,7 +374,7 @@ impl GammaProduct {
             Method::Auto => Method::Product,
             m => m,
         };
-        match method {
+        let r = match method {
             Method::Integral => {
                 if !self.integral_available() {
                     return Err(Error::Domain {
@@ -387,7 +387,25 @@ impl GammaProduct {
                 self.integral_form(&z, z0.as_ref(), wp, prec)
             }
             _ => self.product_form(&z, z0.as_ref(), wp, prec),
-        }
+        };
+        // Name the rapidity in pole and zero reports.
+        r.map_err(|e| match e {
+            Error::Pole {
+                function, order, ..
+            } => Error::Pole {
+                function,
+                order,
+                at: format!("θ = {}", theta.to_decimal(17)),
+            },
+            Error::Zero {
+                function, order, ..
+            } => Error::Zero {
+                function,
+                order,
+                at: format!("θ = {}", theta.to_decimal(17)),
+            },
+            other => other,
+        })
     }
 
     /// Σ_{k<K} Σ_j n_j [log Γ(a_j k + c_j) − log Γ(a_j k + c_j⁰)] with poles detected.

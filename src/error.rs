@@ -81,6 +81,19 @@ pub enum Error {
         /// What is wrong and what is accepted.
         message: String,
     },
+    /// An expression (see [`crate::expr`]) failed to parse or to evaluate.
+    /// Displays as the source with a caret under `column` when it is known
+    /// ([`crate::expr::render`]).
+    Expression {
+        /// Where the expression came from (file and line), if given.
+        location: Option<String>,
+        /// The expression's source text.
+        expr: String,
+        /// 1-based column in characters, when the problem has one.
+        column: Option<usize>,
+        /// What is wrong and what was expected.
+        message: String,
+    },
 }
 
 impl fmt::Display for Error {
@@ -133,6 +146,17 @@ impl fmt::Display for Error {
                 "{what} did not reach the requested accuracy (best error estimate {achieved}); {hint}"
             ),
             Error::Domain { function, message } => write!(f, "{function}: {message}"),
+            Error::Expression {
+                location,
+                expr,
+                column,
+                message,
+            } => f.write_str(&crate::expr::render(
+                expr,
+                *column,
+                message,
+                location.as_deref(),
+            )),
             Error::Divergent {
                 condition,
                 value,

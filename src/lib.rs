@@ -20,6 +20,7 @@
 
 pub mod cli;
 pub mod error;
+pub mod expr;
 pub mod factor;
 pub mod num;
 pub mod precision;

@@ -24,7 +24,7 @@
 //!
 //! **Near the zeros at 1 and 2** the double path sums the Taylor series
 //! `log Γ(2+ε) = (1−γ)ε + Σ_{k≥2} (−1)^k (ζ(k)−1) ε^k / k` (DLMF 5.7.3) for
-//! `|ε| < 1/4`, with `log Γ(1+ε) = log Γ(2+ε) − ln(1+ε)`, so the error stays
+//! `|z − 2| < 1`, and `log Γ(1+ε) = log Γ(2+ε) − ln(1+ε)` for `|z − 1| < 0.55`, so the error stays
 //! relative. The arbitrary path instead measures the cancellation and
 //! recomputes with enough extra bits.
 //!
@@ -196,11 +196,11 @@ fn reflected<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
 
 /// The double path near 1 and 2: Taylor series about 2 (DLMF 5.7.3), used
 /// for `|z − 2| < 1` and, through `log Γ(1+ε) = log Γ(2+ε) − ln(1+ε)`, for
-/// `|z − 1| < 1/4`. The terms fall like `(|ε|/2)^k`; the length is chosen
+/// `|z − 1| < 0.55`. The terms fall like `(|ε|/2)^k`; the length is chosen
 /// so the first neglected one is below `2^−56` relative.
 fn near_one_two<C: ComplexField>(z: &C) -> Option<(C, Radius)> {
     let (x, y) = (z.re_f64(), z.im_f64());
-    let (eps, at_one) = if (x - 1.0) * (x - 1.0) + y * y < 0.0625 {
+    let (eps, at_one) = if (x - 1.0) * (x - 1.0) + y * y < 0.3025 {
         (z.clone().add_i64(-1), true)
     } else if (x - 2.0) * (x - 2.0) + y * y < 1.0 {
         (z.clone().add_i64(-2), false)

@@ -27,7 +27,7 @@ use crate::error::{Error, Result};
 use crate::num::{ComplexField, RealField};
 use crate::precision::{Approx, Prec, Radius};
 use crate::quadrature::{default_rule, Domain};
-use crate::special::{hurwitz_zeta, log_gamma};
+use crate::special::{asymptotic_radius, finish, hurwitz_zeta, log_gamma};
 use rug::float::Constant;
 use rug::{Complex, Float, Integer};
 use std::collections::HashMap;
@@ -490,7 +490,7 @@ impl GammaProduct {
     ) -> Result<FactorValue<C>> {
         let coeffs = self.coeffs_at(wp);
         // K: a_j K past the asymptotic radius and past 2|c_j|.
-        let radius = (0.15 * wp as f64).max(8.0);
+        let radius = asymptotic_radius(wp);
         let mut kk = 1usize;
         let mut y_max = 0.0f64;
         let mut c_max = 0.0f64;
@@ -972,12 +972,6 @@ fn near_gamma_pole<C: ComplexField>(w: &C, wp: u32) -> bool {
     let m = x.round();
     let d = w.clone().add_i64(-(m as i64)).log2_abs();
     d < w.log2_abs().max(0.0) - wp as f64 + 16.0
-}
-
-fn finish<C: ComplexField>(v: C, radius: Radius, prec: Prec) -> Approx<C> {
-    let out_prec = C::MAX_PREC.unwrap_or(prec.bits());
-    let r = radius + Radius::from_log2(v.log2_abs() - out_prec as f64);
-    Approx::new(v.with_prec(out_prec), r, out_prec)
 }
 
 /// The convergence conditions (module docs; docs/math.md §2).

@@ -143,3 +143,18 @@ fn polygamma_order_cap() {
     assert!(matches!(e, Error::Domain { .. }));
     assert!(e.to_string().contains("order"), "{e}");
 }
+
+#[test]
+fn tiny_arguments_near_the_pole_at_zero_stay_cheap() {
+    // ψ(z) = −1/z − γ + O(z) (DLMF 5.7.6, common practice): at z = 10^-7100
+    // the value is −10^7100 to all digits; no guard bits are needed for the
+    // distance to the pole at 0, so this must not escalate the precision.
+    let z = Complex::with_val(64, rug::Float::parse("1e-7100").unwrap());
+    let r = digamma(&z, Prec::digits(15).unwrap()).unwrap();
+    let want = -rug::Float::with_val(64, z.real().recip_ref());
+    let rel = ((r.value.real().clone() - &want) / &want).abs();
+    assert!(rel.to_f64() < 1e-15, "{rel}");
+    let lg = log_gamma(&z, Prec::digits(15).unwrap()).unwrap();
+    // log Γ(z) = −ln z − γz + … ≈ 7100 ln 10
+    assert!((lg.value.real().to_f64() - 7100.0 * std::f64::consts::LN_10).abs() < 1e-9);
+}

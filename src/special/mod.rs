@@ -155,11 +155,13 @@ pub(crate) fn adaptive<C: ComplexField>(
 /// it, relative to |z|, must survive rounding z to the working precision.
 pub(crate) fn pole_guard<C: ComplexField>(z: &C) -> u32 {
     let m = z.re_f64().round();
-    if m > 0.0 {
+    if m >= 0.0 {
+        // Near 0 the distance to the pole is |z| itself, which floating
+        // point keeps to full relative precision at any magnitude.
         return 0;
     }
     let d = z.clone().add_i64(-(m as i64)).log2_abs();
-    (z.log2_abs().max(0.0) - d).max(0.0).ceil() as u32
+    (z.log2_abs() - d).max(0.0).ceil() as u32
 }
 
 /// `log2 |B_{2k}|` from `|B_{2k}| ≈ 2 (2k)! / (2π)^{2k}` (DLMF 24.9.8); within

@@ -168,7 +168,7 @@ fn demo() -> String {
     let mut out = String::new();
     let _ = writeln!(
         out,
-        "dressing demo: the numeric core (special functions with error estimates)\n"
+        "dressing demo: the numeric core (special functions with error estimates) and a gamma-product factor\n"
     );
     let points = [(0.5, 3.0), (-7.3, 0.4), (2.0, 1e-8)];
     for digits in [15u64, 50] {
@@ -210,7 +210,51 @@ fn demo() -> String {
             "ψ(1) = −γ (DLMF 5.4.12): agrees to {agree:.0} digits at 100 requested"
         );
     }
+    demo_factor(&mut out);
     out
+}
+
+/// The demo's factor section: a published factor (the sine-Gordon soliton
+/// factor, a check rather than a model of ours) evaluated in and outside the
+/// strip of its integral, by both representations.
+fn demo_factor(out: &mut String) {
+    use crate::factor::{known::sine_gordon_soliton, Method};
+    let xi = 2.0 * std::f64::consts::PI / 7.0;
+    let Ok(f) = sine_gordon_soliton(xi) else {
+        return;
+    };
+    let _ = writeln!(
+        out,
+        "\nGamma-product factor (a published check): sine-Gordon soliton factor, ξ = 2π/7"
+    );
+    if let Some((lo, hi)) = f.strip() {
+        let _ = writeln!(
+            out,
+            "integral representation converges for {lo:.4} < Im θ < {hi:.4}"
+        );
+    }
+    let prec = Prec::digits(30).expect("valid");
+    for (x, y) in [(0.7, 0.2), (0.4, 1.5)] {
+        let theta = Complex::with_val(prec.bits() + 32, (x, y));
+        let p = f.log_value(&theta, prec, Method::Product);
+        let i = f.log_value(&theta, prec, Method::Integral);
+        match (p, i) {
+            (Ok(p), Ok(i)) => {
+                let agree = agreement_digits(&p.log.value, &i.log.value);
+                let _ = writeln!(
+                    out,
+                    "log(−S₀(θ = {x}{y:+}i)) = {}\n    error estimate {}; {}; {} agrees to {agree:.0} digits",
+                    p.log.value.to_decimal(30),
+                    p.log.radius,
+                    p.representation,
+                    i.representation
+                );
+            }
+            (Err(e), _) | (_, Err(e)) => {
+                let _ = writeln!(out, "θ = {x}{y:+}i: {e}");
+            }
+        }
+    }
 }
 
 /// Significant decimal digits to which `a` and `b` agree.

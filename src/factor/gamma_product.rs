@@ -140,7 +140,8 @@ impl fmt::Display for Representation {
             Representation::Integral { peeled: 0 } => write!(f, "integral (in its strip)"),
             Representation::Integral { peeled } => write!(
                 f,
-                "integral continued outside its strip ({peeled} factors taken out)"
+                "integral continued outside its strip ({peeled} factor{} taken out)",
+                if *peeled == 1 { "" } else { "s" }
             ),
         }
     }

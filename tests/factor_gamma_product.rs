@@ -236,3 +236,76 @@ fn bad_input_to_gamma_products() {
         )
         .is_ok());
 }
+
+#[test]
+fn crossing_symmetric_tail_with_vanishing_odd_terms() {
+    // Π_k Γ(k+¼+z)Γ(k+¾−z)Γ(k+¾+z)Γ(k+¼−z) / (Γ(k+½+z)Γ(k+½−z))², normalised
+    // at 0: offsets pair as (c, 1−c), so every odd tail coefficient vanishes.
+    // A stopping rule that trusts one small term stops too early here
+    // (found in review); product and integral must still agree.
+    let q = |n: i64, d: i64| Coef::rational(n, d);
+    let t = |b: Coef, s: i64, n: i64| GammaTerm::new(Coef::integer(1), b, Coef::integer(s), n);
+    let f = GammaProduct::new(
+        vec![
+            t(q(1, 4), 1, 1),
+            t(q(3, 4), -1, 1),
+            t(q(3, 4), 1, 1),
+            t(q(1, 4), -1, 1),
+            t(q(1, 2), 1, -2),
+            t(q(1, 2), -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap();
+    for digits in [30u32, 60] {
+        let theta = Complex::with_val(bits(digits) + 30, (0.3, 0.2));
+        let p = f
+            .log_value(
+                &theta,
+                Prec::digits(digits as u64).unwrap(),
+                Method::Product,
+            )
+            .unwrap();
+        let i = f
+            .log_value(
+                &theta,
+                Prec::digits(digits as u64).unwrap(),
+                Method::Integral,
+            )
+            .unwrap();
+        assert_agree(
+            &p.log.value,
+            &i.log.value,
+            digits,
+            &format!("{digits} digits"),
+        );
+        let d = Complex::with_val(theta.prec().0, &p.log.value - &i.log.value);
+        // The two error estimates together cover the difference.
+        assert!(d.log2_abs() <= (p.log.radius + i.log.radius).log2() + 1.0);
+    }
+}
+
+#[test]
+fn rapidities_too_far_out_are_refused_quickly() {
+    let f = sine_gordon(1.0);
+    let e = f
+        .log_value(
+            &num_complex::Complex64::new(1e25, 0.0),
+            Prec::DOUBLE,
+            Method::Product,
+        )
+        .unwrap_err();
+    assert!(
+        matches!(e, Error::Domain { .. }) && e.to_string().contains("explicit factors"),
+        "{e}"
+    );
+    let e = f
+        .log_value(
+            &num_complex::Complex64::new(0.0, 1e25),
+            Prec::DOUBLE,
+            Method::Integral,
+        )
+        .unwrap_err();
+    assert!(e.to_string().contains("too far"), "{e}");
+}

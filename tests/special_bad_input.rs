@@ -158,3 +158,53 @@ fn tiny_arguments_near_the_pole_at_zero_stay_cheap() {
     // log Γ(z) = −ln z − γz + … ≈ 7100 ln 10
     assert!((lg.value.real().to_f64() - 7100.0 * std::f64::consts::LN_10).abs() < 1e-9);
 }
+
+#[test]
+fn exact_zeros_of_log_barnes_g_are_exact() {
+    // G(1) = G(2) = G(3) = 1 (DLMF 5.17.2): no precision escalation there.
+    for n in 1..=3 {
+        let r = log_barnes_g(&Complex::with_val(1100, n), Prec::digits(300).unwrap()).unwrap();
+        assert!(r.value.is_zero() && r.radius.is_zero());
+    }
+}
+
+#[test]
+fn huge_arguments_do_not_panic_or_return_infinity() {
+    // |Re z| beyond 2^63 (integer conversions must not overflow).
+    let z = Complex64::new(-1e19, 0.5);
+    let d = log_gamma(&z, Prec::DOUBLE).unwrap();
+    let m = log_gamma(
+        &Complex::with_val(64, (-1e19, 0.5)),
+        Prec::digits(15).unwrap(),
+    )
+    .unwrap();
+    let rel = ((d.value.re - m.value.real().to_f64()).hypot(d.value.im - m.value.imag().to_f64()))
+        / d.value.norm();
+    assert!(rel < 1e-13, "double and MPFR paths differ by {rel:e}");
+    // |z| near the top of the double range: a finite value with a finite radius …
+    let r = log_gamma(&Complex64::new(1e300, 0.5), Prec::DOUBLE).unwrap();
+    assert!(r.value.re.is_finite() && r.radius.is_finite());
+    // … and past it an Overflow error, not infinity.
+    assert!(matches!(
+        log_gamma(&Complex64::new(1.7e308, 0.5), Prec::DOUBLE),
+        Err(Error::Overflow { .. })
+    ));
+    assert!(matches!(
+        polygamma(200, &Complex64::new(0.001, 0.0), Prec::DOUBLE),
+        Err(Error::Overflow { .. })
+    ));
+}
+
+#[test]
+fn hurwitz_far_left_is_refused_not_slow() {
+    let e = hurwitz_zeta(
+        &Complex64::new(2.0, 0.0),
+        &Complex64::new(-1e7, 0.5),
+        Prec::DOUBLE,
+    )
+    .unwrap_err();
+    assert!(
+        matches!(e, Error::Domain { .. }) && e.to_string().contains("shift a"),
+        "{e}"
+    );
+}

@@ -101,7 +101,9 @@ impl Scale {
 /// Which representation to use.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Method {
-    /// Choose automatically.
+    /// Choose automatically: currently the product form, which converges
+    /// everywhere and measured faster than the integral at every precision
+    /// tried (docs/performance.md); the integral serves as the independent check.
     Auto,
     /// Explicit factors plus the analytic tail.
     Product,
@@ -229,6 +231,10 @@ impl fmt::Debug for GammaProduct {
 }
 
 const ANALYSIS_BITS: u32 = 256;
+
+/// The most factors the product form (or the continuation) sums explicitly;
+/// beyond it the rapidity is too far out for these representations.
+pub const MAX_EXPLICIT: usize = 20_000;
 
 /// (step, offset, slope) of one term at a working precision.
 type Abs = (Float, Float, Float);
@@ -439,8 +445,10 @@ impl GammaProduct {
                 let base = a.clone().mul_i64(k as i64) + &b;
                 for (arg_z, sign) in [(Some(z), 1i64), (z0, -1i64)] {
                     let Some(zz) = arg_z else { continue };
-                    let w = zz.clone().mul_real(&s).add_real(&base);
-                    if near_gamma_pole(&w, wp) {
+                    let sz = zz.clone().mul_real(&s);
+                    let scale = sz.log2_abs().exp2() + base.to_f64().abs();
+                    let w = sz.add_real(&base);
+                    if near_gamma_pole(&w, scale, wp) {
                         if sign == 1 {
                             pole_order += n;
                             at_pole = true;
@@ -505,6 +513,15 @@ impl GammaProduct {
                 c_max = c_max.max(x.hypot(y) / a);
             }
             let need = ((radius + 2.0 * c_abs) / a).ceil().max(1.0);
+            if !(need <= MAX_EXPLICIT as f64) {
+                return Err(Error::Domain {
+                    function: "GammaProduct::log_value",
+                    message: format!(
+                        "this rapidity needs about {need:.0e} explicit factors in the product form \
+                         (the cap is {MAX_EXPLICIT}); it is too far from the origin for this factor"
+                    ),
+                });
+            }
             kk = kk.max(need as usize);
         }
         let a_min = coeffs
@@ -538,7 +555,7 @@ impl GammaProduct {
             {
                 break (explicit, rad_explicit, tail, tail_err, used);
             }
-            if kk > 64 * wp as usize {
+            if kk > MAX_EXPLICIT {
                 return Err(Error::NoConvergence {
                     what: "the analytic tail of the gamma product".into(),
                     achieved: "no usable truncation".into(),
@@ -619,22 +636,34 @@ impl GammaProduct {
         }
         // C_m = (−1)^m (m−2)! g_m ;  tail = Σ_{m=3}^{M} C_m ζ(m−1, K)
         let zetas = self.zetas_at(wp, kk as u64, mm)?;
-        let mut sum = C::from_reals(zero.clone(), zero.clone());
-        for m in 3..=mm {
+        let term_at = |m: usize| -> C {
             let fact = C::Real::from_float(&Float::with_val(
                 wp,
                 Integer::from(Integer::factorial(m as u32 - 2)),
             ));
             let zeta = C::Real::from_float(&zetas[m - 2]);
-            let mut term = g[m].clone().mul_real(&fact).mul_real(&zeta);
+            let term = g[m].clone().mul_real(&fact).mul_real(&zeta);
             if m % 2 == 1 {
-                term = -term;
+                -term
+            } else {
+                term
             }
-            let size = term.log2_abs();
-            if size < target && m > 3 {
-                return Ok(Some((sum, Radius::from_log2(size + 1.0), m - 3)));
+        };
+        let mut sum = C::from_reals(zero.clone(), zero.clone());
+        let mut m = 3usize;
+        while m < mm {
+            let term = term_at(m);
+            let next = term_at(m + 1);
+            // Stop only when two consecutive terms are small: for crossing-
+            // symmetric products every odd (or even) C_m vanishes, and one
+            // zero term says nothing about the rest of the series.
+            let (size, size_next) = (term.log2_abs(), next.log2_abs());
+            if m > 3 && size < target && size_next < target {
+                let err = Radius::from_log2(size + 1.0) + Radius::from_log2(size_next + 1.0);
+                return Ok(Some((sum, err, m - 3)));
             }
             sum += &term;
+            m += 1;
         }
         Ok(None)
     }
@@ -681,7 +710,17 @@ impl GammaProduct {
                 re_c = re_c.min(b + s * z0.re_f64());
             }
             if re_c < margin {
-                peel = peel.max(((margin - re_c) / a).ceil() as usize);
+                let need = ((margin - re_c) / a).ceil();
+                if !(need <= MAX_EXPLICIT as f64) {
+                    return Err(Error::Domain {
+                        function: "GammaProduct::log_value",
+                        message: format!(
+                            "continuing the integral here would take out about {need:.0e} factors \
+                             (the cap is {MAX_EXPLICIT}); the rapidity is too far from the strip"
+                        ),
+                    });
+                }
+                peel = peel.max(need as usize);
             }
         }
         let (explicit, rad_explicit) = if peel > 0 {
@@ -693,7 +732,7 @@ impl GammaProduct {
         let mut exps: Vec<(C, i64)> = Vec::new();
         for (j, (a, b, s)) in coeffs.iter().enumerate() {
             let n = self.terms[j].power;
-            let b2 = C::Real::from_float(&Float::with_val(wp, a * peel as u32))
+            let b2 = C::Real::from_float(&Float::with_val(wp, a * Integer::from(peel)))
                 + &C::Real::from_float(b);
             let s = C::Real::from_float(s);
             exps.push((z.clone().mul_real(&s).add_real(&b2), n));
@@ -965,14 +1004,18 @@ impl<C: ComplexField> Accumulator<C> {
     }
 }
 
-fn near_gamma_pole<C: ComplexField>(w: &C, wp: u32) -> bool {
+/// Whether `w` is a pole of Γ up to the rounding of its computation: within
+/// `2^(8−wp)` of a non-positive integer, relative to the size `scale` of the
+/// pieces `w` was summed from. Nearer than that, but not that near, log Γ
+/// itself is accurate and no pole is reported.
+fn near_gamma_pole<C: ComplexField>(w: &C, scale: f64, wp: u32) -> bool {
     let x = w.re_f64();
     if x > 0.5 {
         return false;
     }
     let m = x.round();
-    let d = w.clone().add_i64(-(m as i64)).log2_abs();
-    d < w.log2_abs().max(0.0) - wp as f64 + 16.0
+    let d = w.clone().add_real(&C::Real::from_f64(-m, wp)).log2_abs();
+    d < scale.max(1.0).log2() - wp as f64 + 8.0
 }
 
 /// The convergence conditions (module docs; docs/math.md §2).

@@ -80,6 +80,12 @@ pub fn log_barnes_g<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
             at: show(z),
         });
     }
+    if z.im().is_zero() && matches!(crate::num::exact_integer(&z.re()), Some(1..=3)) {
+        // G(1) = G(2) = G(3) = 1 (DLMF 5.17.2): log G is exactly 0 there, which
+        // no amount of working precision would show by cancellation.
+        let p = C::MAX_PREC.unwrap_or(prec.bits());
+        return Ok(Approx::new(C::from_i64(0, p), Radius::ZERO, p));
+    }
     if C::MAX_PREC.is_some() {
         // The double path goes through 53 bits + guard on MPFR: log G cancels
         // up to ~7 bits between its asymptotic part and the shift, more than

@@ -31,6 +31,10 @@ pub(crate) fn build_em<R: RealField>(prec: u32, len: usize) -> Vec<R> {
     })
 }
 
+/// The farthest left `Re a` accepted (the direct part of the sum has about
+/// `−Re a` terms).
+pub const MIN_REAL_PART: f64 = -1.0e5;
+
 /// The Hurwitz zeta function ζ(s, a) = Σ_{k≥0} (a + k)^{−s}.
 ///
 /// Errors: [`Error::Pole`] at `s = 1`, and of order `s` at `a = 0, −1, −2, …`
@@ -74,6 +78,16 @@ pub fn hurwitz_zeta<C: ComplexField>(s: &C, a: &C, prec: Prec) -> Result<Approx<
             })
         }
         _ => {}
+    }
+    if a.re_f64() < MIN_REAL_PART {
+        return Err(Error::Domain {
+            function: "hurwitz_zeta",
+            message: format!(
+                "Re a = {:e} is left of the supported {MIN_REAL_PART:e} (the direct sum grows with \
+                 −Re a); shift a with ζ(s, a) = ζ(s, a + m) + Σ_{{k<m}} (a + k)^(−s) analytically first",
+                a.re_f64()
+            ),
+        });
     }
     let guard = 24 + super::pole_guard(a) + s.log2_abs().max(1.0).log2().ceil() as u32;
     Ok(adaptive(prec, guard, |wp| {

@@ -165,8 +165,8 @@ fn shifted_stirling<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
 
 fn reflected<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
     // log Γ(z) = ln 2π + iπ(z − ½) − ln(1 − e^{2πiz}) − log Γ(1 − z),  Im z ≥ 0.
-    let m = z.re_f64().round() as i64;
-    let w = z.clone().add_i64(-m); // |Re w| ≤ 1/2, exact up to rounding of z
+    let m = z.re_f64().round();
+    let w = z.clone().add_real(&C::Real::from_f64(-m, wp)); // |Re w| ≤ 1/2 (z − m is periodic-safe)
     let pi: C::Real = constant(k::PI, wp);
     let ln_2pi: C::Real = constant(k::LN_2PI, wp);
     let one_minus_q = if z.im_f64() < 1.0 {
@@ -287,6 +287,13 @@ pub fn log_gamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
             Some(vr) => vr,
             None => {
                 let (v, e) = double_kernel(Complex64::new(zu.re_f64(), zu.im_f64()));
+                if !(v.re.is_finite() && v.im.is_finite()) {
+                    return Err(Error::Overflow {
+                        function: "log_gamma",
+                        hint:
+                            "|log Γ(z)| exceeds the double range; use the arbitrary-precision path",
+                    });
+                }
                 let v = C::from_f64(v.re, v.im, 53);
                 (fix_on_cut(&zu, v, 53), Radius::from_f64(e))
             }
@@ -382,7 +389,11 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
         w.norm().ln()
     };
     let ln_w = Complex64::new(ln_abs, w.im.atan2(w.re));
-    let inv_w = w.conj() / n2;
+    let inv_w = if n2.is_finite() && n2 > 1e-300 {
+        w.conj() / n2
+    } else {
+        Complex64::new(1.0, 0.0) / w
+    };
     let inv_w2 = inv_w * inv_w;
     let c = stirling_f64();
     let mut acc = Complex64::new(c[DOUBLE_TERMS - 1], 0.0);
@@ -399,7 +410,7 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
         mag += lp.re.abs() + lp.im.abs() + (2.0 * std::f64::consts::PI * crossings as f64);
     }
     // Remainder bound |c_{N+1}| |w|^{−2N−1} sec^{2N+2}(½ arg w) (DLMF 5.11.ii).
-    let abs_w = n2.sqrt();
+    let abs_w = w.norm();
     let sec2 = 2.0 * abs_w / (abs_w + w.re);
     let trunc = c[DOUBLE_TERMS].abs()
         * abs_w.powi(-(2 * DOUBLE_TERMS as i32) - 1)

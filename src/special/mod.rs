@@ -137,12 +137,16 @@ pub(crate) fn adaptive<C: ComplexField>(
         return finish(core.value, r, prec);
     }
     let mut guard = guard;
+    let mut rounds = 0;
     loop {
         let wp = prec.with_guard(guard);
         let core = eval(wp);
         let lost = core.mag_log2 - core.value.log2_abs();
         let cap = 8 * prec.bits() + 256;
-        if lost.is_finite() && lost > guard as f64 - 12.0 && guard < cap {
+        rounds += 1;
+        // Three rounds at most: a value that keeps vanishing as the precision
+        // grows is (numerically) a zero, and its radius says so in absolute terms.
+        if lost.is_finite() && lost > guard as f64 - 12.0 && guard < cap && rounds <= 3 {
             guard = (lost.ceil() as u32 + 24).max(guard + 16).min(cap);
             continue;
         }
@@ -160,7 +164,7 @@ pub(crate) fn pole_guard<C: ComplexField>(z: &C) -> u32 {
         // point keeps to full relative precision at any magnitude.
         return 0;
     }
-    let d = z.clone().add_i64(-(m as i64)).log2_abs();
+    let d = z.clone().add_real(&C::Real::from_f64(-m, 53)).log2_abs();
     (z.log2_abs() - d).max(0.0).ceil() as u32
 }
 

@@ -85,7 +85,14 @@ pub fn polygamma<C: ComplexField>(n: u32, z: &C, prec: Prec) -> Result<Approx<C>
     // Double path: where the shift or reflection cancelled more than the
     // 1e-14 target allows (high orders near the negative axis), redo the
     // point on MPFR at 53 bits plus guard.
-    super::refine_double(r, z, |zm, p| polygamma(n, zm, p))
+    let r = super::refine_double(r, z, |zm, p| polygamma(n, zm, p))?;
+    if !r.value.is_finite() {
+        return Err(Error::Overflow {
+            function: "polygamma",
+            hint: "the value exceeds the double range; use the arbitrary-precision path",
+        });
+    }
+    Ok(r)
 }
 
 fn eval<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
@@ -226,8 +233,8 @@ fn cot_derivative_poly(n: u32) -> Vec<Integer> {
 }
 
 fn reflected<C: ComplexField>(n: u32, z: &C, wp: u32) -> Core<C> {
-    let m = z.re_f64().round() as i64;
-    let w = z.clone().add_i64(-m);
+    let m = z.re_f64().round();
+    let w = z.clone().add_real(&C::Real::from_f64(-m, wp));
     let pi: C::Real = constant(k::PI, wp);
     let y = z.im_f64();
     let bits_per_term = 2.0 * std::f64::consts::PI * y.abs() * std::f64::consts::LOG2_E;

@@ -513,7 +513,7 @@ impl GammaProduct {
                 c_max = c_max.max(x.hypot(y) / a);
             }
             let need = ((radius + 2.0 * c_abs) / a).ceil().max(1.0);
-            if !(need <= MAX_EXPLICIT as f64) {
+            if need.is_nan() || need > MAX_EXPLICIT as f64 {
                 return Err(Error::Domain {
                     function: "GammaProduct::log_value",
                     message: format!(
@@ -711,7 +711,7 @@ impl GammaProduct {
             }
             if re_c < margin {
                 let need = ((margin - re_c) / a).ceil();
-                if !(need <= MAX_EXPLICIT as f64) {
+                if need.is_nan() || need > MAX_EXPLICIT as f64 {
                     return Err(Error::Domain {
                         function: "GammaProduct::log_value",
                         message: format!(

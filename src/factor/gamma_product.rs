@@ -189,7 +189,8 @@ impl Convergence {
     }
 }
 
-/// An infinite product of gamma functions. See the [module docs](self).
+/// An infinite product of gamma functions; the method is described in
+/// docs/math.md and in the [`factor`](crate::factor) module.
 ///
 /// ```
 /// use dressing::factor::{Coef, GammaProduct, GammaTerm, Method, Scale};

@@ -1,7 +1,7 @@
 //! Complex special functions on both numeric paths.
 //!
 //! Every function takes the argument and an explicit [`Prec`]; it works at
-//! `prec` plus guard bits and returns an [`Approx`] whose radius estimates
+//! `prec` plus guard bits and returns an [`Approx`](crate::Approx) whose radius estimates
 //! the absolute error. On the double path (`Complex64`) the precision must be
 //! at most 53 bits. Poles come back as [`Error::Pole`], zeros of a function
 //! whose logarithm is asked for as [`Error::Zero`]; never as NaN or infinity.

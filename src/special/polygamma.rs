@@ -55,7 +55,7 @@ pub fn digamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
 /// ψ⁽ⁿ⁾(z), the polygamma function of order `n` (`n = 0` is ψ).
 ///
 /// Errors: [`Error::Pole`] of order `n + 1` at `z = 0, −1, −2, …`;
-/// [`Error::Domain`] for `n >` [`MAX_ORDER`].
+/// [`Error::Domain`] for `n` above `MAX_ORDER` (200).
 ///
 /// ```
 /// use dressing::{special::polygamma, Prec};

@@ -309,3 +309,55 @@ fn rapidities_too_far_out_are_refused_quickly() {
         .unwrap_err();
     assert!(e.to_string().contains("too far"), "{e}");
 }
+
+#[test]
+fn rational_products_are_decided_exactly() {
+    // Integer coefficients: every condition decided in exact arithmetic.
+    let t = |a: i64, b: i64, s: i64, n: i64| {
+        GammaTerm::new(Coef::integer(a), Coef::integer(b), Coef::integer(s), n)
+    };
+    let f = GammaProduct::new(
+        vec![
+            t(4, 1, -2, 1),
+            t(4, 4, -2, 1),
+            t(4, 3, 2, 1),
+            t(4, 2, 2, 1),
+            t(4, 1, 2, -1),
+            t(4, 4, 2, -1),
+            t(4, 3, -2, -1),
+            t(4, 2, -2, -1),
+        ],
+        Scale::OverIPi,
+        None,
+    )
+    .unwrap();
+    assert!(f
+        .convergence()
+        .conditions
+        .iter()
+        .all(|c| c.exact && c.holds));
+    // Steps 1 and 2 with logarithms: Σ n s ln a = (1 − 1)·ln 1 + (−2 + 2)·ln 2 = 0 exactly.
+    let g = GammaProduct::new(
+        vec![
+            t(1, 1, 1, 1),
+            t(1, 1, -1, 1),
+            t(2, 1, 1, -2),
+            t(2, 1, -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap();
+    assert!(g
+        .convergence()
+        .conditions
+        .iter()
+        .all(|c| c.exact && c.holds));
+    // A computed coefficient (π/ξ) falls back to the numerical decision.
+    let sg = sine_gordon(0.8);
+    assert!(sg
+        .convergence()
+        .conditions
+        .iter()
+        .all(|c| !c.exact && c.holds));
+}

@@ -168,9 +168,12 @@ pub struct Condition {
     pub meaning: &'static str,
     /// The value of the left-hand side (should be 0).
     pub value: f64,
-    /// Whether it holds: `|value|` below `2^−180` of the largest summand,
-    /// evaluated at 256 bits (parameters computed at that precision).
+    /// Whether it holds. Exactly decided when every coefficient is rational
+    /// (logarithms split over a coprime base, see `exact`); otherwise
+    /// `|value|` below `2^−180` of the largest summand at 256 bits.
     pub holds: bool,
+    /// Whether `holds` was decided exactly.
+    pub exact: bool,
 }
 
 /// The convergence analysis of a product.
@@ -1124,16 +1127,174 @@ fn analyse(terms: &[GammaTerm], normalised: bool) -> Convergence {
             sum += v;
         }
         let tol = scale >> 180u32;
-        let holds = Float::with_val(p, sum.clone().abs()) <= tol;
+        let numeric = Float::with_val(p, sum.clone().abs()) <= tol;
+        let exact = exact_condition(formula, terms);
         conditions.push(Condition {
             formula,
             meaning,
             value: sum.to_f64(),
-            holds,
+            holds: exact.unwrap_or(numeric),
+            exact: exact.is_some(),
         });
     }
     Convergence {
         conditions,
         common_step,
     }
+}
+
+/// Exact decision of a convergence condition when every coefficient is
+/// rational; `None` where a coefficient is not, or where the logarithms of
+/// the steps cannot be split over a coprime integer base.
+///
+/// A condition is `r₀ + Σ_q r_q ln q + r_π ln π` over a base of pairwise
+/// coprime integers `q`; it vanishes iff every coefficient does, since logs of
+/// pairwise coprime integers > 1 are linearly independent over Q and π is
+/// transcendental (common practice).
+fn exact_condition(formula: &str, terms: &[GammaTerm]) -> Option<bool> {
+    use rug::Rational;
+    let mut vals = Vec::with_capacity(terms.len());
+    for t in terms {
+        vals.push((
+            t.step.exact()?.clone(),
+            t.offset.exact()?.clone(),
+            t.slope.exact()?.clone(),
+            Rational::from(t.power),
+        ));
+    }
+    let half = Rational::from((1, 2));
+    let steps: Vec<Rational> = vals.iter().map(|v| v.0.clone()).collect();
+    let base = coprime_base(&steps)?;
+    // ln a = Σ_q e_q(a) ln q
+    let exps = |a: &Rational| -> Vec<i64> {
+        base.iter()
+            .map(|q| valuation(a.numer(), q) - valuation(a.denom(), q))
+            .collect()
+    };
+    // Every step must factor completely over the base, or no exact decision.
+    for a in &steps {
+        let e = exps(a);
+        let mut num = Integer::from(1);
+        let mut den = Integer::from(1);
+        for (q, k) in base.iter().zip(&e) {
+            let pw = rug::ops::Pow::pow(q.clone(), k.unsigned_abs() as u32);
+            if *k > 0 {
+                num *= pw;
+            } else if *k < 0 {
+                den *= pw;
+            }
+        }
+        if Rational::from((num, den)) != a.clone().abs() {
+            return None;
+        }
+    }
+    let mut r0 = Rational::new();
+    let mut logs = vec![Rational::new(); base.len()];
+    let mut ln_pi = Rational::new();
+    let mut ln2 = Rational::new();
+    for (a, b, s, n) in &vals {
+        let add_log = |logs: &mut Vec<Rational>, c: Rational| {
+            for (slot, e) in logs.iter_mut().zip(exps(a)) {
+                *slot += c.clone() * Rational::from(e);
+            }
+        };
+        match formula {
+            "Σ n·a = 0" => r0 += n.clone() * a,
+            "Σ n·a·ln a = 0" => add_log(&mut logs, n.clone() * a),
+            "Σ n·(b − ½) = 0" => r0 += n.clone() * (b.clone() - &half),
+            "Σ n·s = 0" => r0 += n.clone() * s,
+            "Σ n·((b − ½)·ln a + ½·ln 2π) = 0" => {
+                add_log(&mut logs, n.clone() * (b.clone() - &half));
+                ln2 += n.clone() * &half;
+                ln_pi += n.clone() * &half;
+            }
+            "Σ n·s·ln a = 0" => add_log(&mut logs, n.clone() * s),
+            "Σ n·B₂(b)/a = 0" => {
+                let b2 = b.clone() * b - b + Rational::from((1, 6));
+                r0 += n.clone() * b2 / a;
+            }
+            "Σ n·s²/a = 0" => r0 += n.clone() * s * s / a,
+            "Σ n·s·(2b − 1)/a = 0" => {
+                r0 += n.clone() * s * (b.clone() * 2u32 - 1u32) / a;
+            }
+            _ => return None,
+        }
+    }
+    // ln 2 from ln 2π joins the base coefficient of the base element dividing 2.
+    if ln2 != 0 {
+        match base.iter().position(|q| q.is_divisible_u(2)) {
+            Some(i) if base[i] == 2 => logs[i] += &ln2,
+            Some(_) => return None,
+            None => {
+                if ln2 != 0 {
+                    return Some(false);
+                }
+            }
+        }
+    }
+    Some(r0 == 0 && ln_pi == 0 && logs.iter().all(|c| *c == 0))
+}
+
+/// A base of pairwise coprime integers > 1 in which every numerator and
+/// denominator of `xs` factors (gcd refinement, no factoring needed).
+fn coprime_base(xs: &[rug::Rational]) -> Option<Vec<Integer>> {
+    let mut base: Vec<Integer> = Vec::new();
+    let mut work: Vec<Integer> = xs
+        .iter()
+        .flat_map(|q| [q.numer().clone().abs(), q.denom().clone()])
+        .filter(|x| *x > 1)
+        .collect();
+    let mut guard = 0;
+    while let Some(mut x) = work.pop() {
+        guard += 1;
+        if guard > 10_000 {
+            return None;
+        }
+        let mut i = 0;
+        while i < base.len() && x > 1 {
+            let g = Integer::from(x.gcd_ref(&base[i]));
+            if g > 1 {
+                let b = base.swap_remove(i);
+                // split b and x by g; push the parts back for refinement
+                let bq = Integer::from(&b / &g);
+                x /= &g;
+                work.push(g);
+                if bq > 1 {
+                    work.push(bq);
+                }
+                i = 0;
+                continue;
+            }
+            i += 1;
+        }
+        if x > 1 {
+            if base.contains(&x) {
+                continue;
+            }
+            base.push(x);
+        }
+    }
+    base.sort();
+    base.dedup();
+    // pairwise coprime check
+    for i in 0..base.len() {
+        for j in i + 1..base.len() {
+            if Integer::from(base[i].gcd_ref(&base[j])) != 1 {
+                return None;
+            }
+        }
+    }
+    Some(base)
+}
+
+/// The exponent of `q` in `x` where `q` is a base element (so `x` is a
+/// product of powers of base elements times a unit).
+fn valuation(x: &Integer, q: &Integer) -> i64 {
+    let mut x = x.clone().abs();
+    let mut e = 0;
+    while x > 0 && x.is_divisible(q) {
+        x /= q;
+        e += 1;
+    }
+    e
 }

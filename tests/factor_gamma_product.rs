@@ -48,6 +48,26 @@ fn zz_integral(xi: f64, theta: &Complex, digits: u32) -> Complex {
     -ComplexField::mul_i(r.value)
 }
 
+/// Π_k Γ(k+1+z)Γ(k+1−z)/(Γ(2k+1+z)Γ(2k+1−z))², normalised at 0: steps 1
+/// and 2, and every normalised condition holds (Σ n s = 0, Σ n s ln a = 0,
+/// Σ n s²/a = 2 − 4/2 = 0, Σ n s(2b−1)/a = 0).
+fn mixed_step_product() -> GammaProduct {
+    let t = |a: i64, b: i64, s: i64, n: i64| {
+        GammaTerm::new(Coef::integer(a), Coef::integer(b), Coef::integer(s), n)
+    };
+    GammaProduct::new(
+        vec![
+            t(1, 1, 1, 1),
+            t(1, 1, -1, 1),
+            t(2, 1, 1, -2),
+            t(2, 1, -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap()
+}
+
 fn log_minus_s0(f: &GammaProduct, theta: &Complex, digits: u32, m: Method) -> Complex {
     f.log_value(theta, Prec::digits(digits as u64).unwrap(), m)
         .unwrap()
@@ -208,17 +228,7 @@ fn bad_input_to_gamma_products() {
     // The integral form where steps differ: a clear refusal. This product
     // (steps 1 and 2, normalised at 0) satisfies every normalised condition:
     // Σ n s = 0, Σ n s ln a = 0, Σ n s²/a = 2 − 4/2 = 0, Σ n s(2b−1)/a = 0.
-    let g = GammaProduct::new(
-        vec![
-            t(1, 1, 1, 1),
-            t(1, 1, -1, 1),
-            t(2, 1, 1, -2),
-            t(2, 1, -1, -2),
-        ],
-        Scale::Unit,
-        Some((0.0, 0.0)),
-    )
-    .unwrap();
+    let g = mixed_step_product();
     let e = g
         .log_value(
             &num_complex::Complex64::new(0.1, 0.0),
@@ -337,17 +347,7 @@ fn rational_products_are_decided_exactly() {
         .iter()
         .all(|c| c.exact && c.holds));
     // Steps 1 and 2 with logarithms: Σ n s ln a = (1 − 1)·ln 1 + (−2 + 2)·ln 2 = 0 exactly.
-    let g = GammaProduct::new(
-        vec![
-            t(1, 1, 1, 1),
-            t(1, 1, -1, 1),
-            t(2, 1, 1, -2),
-            t(2, 1, -1, -2),
-        ],
-        Scale::Unit,
-        Some((0.0, 0.0)),
-    )
-    .unwrap();
+    let g = mixed_step_product();
     assert!(g
         .convergence()
         .conditions

@@ -628,8 +628,9 @@ impl GammaProduct {
                     }
                 }
             }
-            // β(t) = a · (t/a)/(e^{t/a} − 1) = Σ_i a B_i (1/a)^i t^i / i!
-            let beta = bernoulli_series::<C::Real>(&a, mm, wp);
+            // β(t) = a · (t/a)/(e^{t/a} − 1)
+            let inv_a = C::Real::from_f64(1.0, wp) / &a;
+            let beta = bernoulli_series(a.clone(), &inv_a, false, mm + 1, wp);
             for m in 0..=mm {
                 let mut acc = C::from_reals(zero.clone(), zero.clone());
                 for i in 0..=m {
@@ -813,8 +814,9 @@ fn malmsten_integral<C: ComplexField>(
         a_ser.push(v);
     }
     let one = C::Real::from_f64(1.0, wp);
-    let b1 = bernoulli_series_plus::<C::Real>(&one, n_series, wp);
-    let b2 = bernoulli_series_plus::<C::Real>(a, n_series, wp);
+    // t/(1 − e^{−t}) and t/(1 − e^{−at}) = (1/a)·(at)/(1 − e^{−at})
+    let b1 = bernoulli_series(one.clone(), &one, true, n_series, wp);
+    let b2 = bernoulli_series(one.clone() / a, a, true, n_series, wp);
     let mut q = vec![zero.clone(); n_series];
     for i in 0..n_series {
         for k in 0..=i {
@@ -918,38 +920,27 @@ fn malmsten_integral_double<C: ComplexField>(
         )
 }
 
-/// `Σ_i a B_i (1/a)^i t^i / i!` = `a · (t/a)/(e^{t/a} − 1)`, coefficients 0..=n.
-fn bernoulli_series<R: RealField>(a: &R, n: usize, wp: u32) -> Vec<R> {
-    let inv_a = R::from_f64(1.0, wp) / a;
-    let mut out = Vec::with_capacity(n + 1);
-    let mut pw = a.clone(); // a · (1/a)^i
+/// The first `len` coefficients of `scale · Σ_i σ^i B_i (step·t)^i / i!`:
+/// with `σ = +1` that is `scale · (step t)/(e^{step t} − 1)`, with `σ = −1`
+/// `scale · (step t)/(1 − e^{−step t})` (DLMF 24.2.1).
+fn bernoulli_series<R: RealField>(
+    scale: R,
+    step: &R,
+    alternate: bool,
+    len: usize,
+    wp: u32,
+) -> Vec<R> {
+    let mut out = Vec::with_capacity(len);
+    let mut pw = scale; // scale · step^i
     let mut fact = Integer::from(1);
-    for i in 0..=n {
+    for i in 0..len {
         if i > 0 {
-            pw *= &inv_a;
-            fact *= i as u32;
-        }
-        let bi = crate::special::bernoulli(i as u32);
-        let q = rug::Rational::from((bi.numer().clone(), bi.denom().clone() * &fact));
-        out.push(pw.clone() * &R::from_rational(&q, wp));
-    }
-    out
-}
-
-/// `t/(1 − e^{−a t})` = `(1/a) Σ_i (−1)^i B_i a^i t^i / i!`, coefficients 0..n.
-fn bernoulli_series_plus<R: RealField>(a: &R, n: usize, wp: u32) -> Vec<R> {
-    let inv_a = R::from_f64(1.0, wp) / a;
-    let mut out = Vec::with_capacity(n);
-    let mut pw = inv_a; // (1/a) a^i
-    let mut fact = Integer::from(1);
-    for i in 0..n {
-        if i > 0 {
-            pw *= a;
+            pw *= step;
             fact *= i as u32;
         }
         let bi = crate::special::bernoulli(i as u32);
         let mut q = rug::Rational::from((bi.numer().clone(), bi.denom().clone() * &fact));
-        if i % 2 == 1 {
+        if alternate && i % 2 == 1 {
             q = -q;
         }
         out.push(pw.clone() * &R::from_rational(&q, wp));

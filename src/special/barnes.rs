@@ -20,8 +20,8 @@
 //! arbitrary path and is an absolute error on the double path.
 
 use super::{
-    adaptive, asymptotic_radius, check_arg, constant, finish, log2_bernoulli_even,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, real_poly_at, shift_for, show, Core,
+    adaptive, asymptotic_radius, check_arg, constant, log2_bernoulli_even, log2_sec2_half_arg,
+    nonpositive_integer, pole_guard, real_poly_at, shift_for, show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
@@ -83,18 +83,13 @@ pub fn log_barnes_g<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
     if z.im().is_zero() && matches!(crate::num::exact_integer(&z.re()), Some(1..=3)) {
         // G(1) = G(2) = G(3) = 1 (DLMF 5.17.2): log G is exactly 0 there, which
         // no amount of working precision would show by cancellation.
-        let p = C::MAX_PREC.unwrap_or(prec.bits());
-        return Ok(Approx::new(C::from_i64(0, p), Radius::ZERO, p));
+        return Ok(super::exact_zero(prec));
     }
     if C::MAX_PREC.is_some() {
         // The double path goes through 53 bits + guard on MPFR: log G cancels
         // up to ~7 bits between its asymptotic part and the shift, more than
         // a 1e-14 relative target allows in plain doubles.
-        let zm = rug::Complex::with_val(53, (z.re_f64(), z.im_f64()));
-        let r = log_barnes_g(&zm, prec)?;
-        let v = C::from_f64(r.value.real().to_f64(), r.value.imag().to_f64(), 53);
-        let rad = r.radius + Radius::from_log2(v.log2_abs() - 53.0);
-        return Ok(Approx::new(v, rad, 53));
+        return super::on_mpfr(z, prec, log_barnes_g);
     }
     let zero = C::Real::from_f64(0.0, 53);
     let lower = z.im() < zero;
@@ -118,27 +113,20 @@ pub fn log_barnes_g<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
 pub fn barnes_g<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
     check("barnes_g", z, prec)?;
     if nonpositive_integer(z).is_some() {
-        let p = C::MAX_PREC.unwrap_or(prec.bits());
-        return Ok(Approx::new(C::from_i64(0, p), Radius::ZERO, p));
+        return Ok(super::exact_zero(prec));
     }
+    // |log G| ~ |z|² ln|z|/2: its absolute error becomes the relative error of G.
     let l2 = z.log2_abs().max(1.0);
     let guard = (2.0 * l2 + l2.log2().max(0.0)).ceil() as u32 + 8;
-    let inner = if C::MAX_PREC.is_some() {
-        prec
-    } else {
-        Prec::from_bits(prec.bits() as u64 + guard as u64)?
-    };
-    let lg = log_barnes_g(z, inner)?;
-    if C::MAX_PREC.is_some() && lg.value.re_f64() > 709.0 {
-        return Err(Error::Overflow {
-            function: "barnes_g",
-            hint: "use log_barnes_g, or the arbitrary-precision path",
-        });
-    }
-    let v = lg.value.exp();
-    let rel = lg.radius + Radius::from_log2(-(inner.bits() as f64) + 2.0);
-    let rad = Radius::from_log2(v.log2_abs() + rel.log2());
-    Ok(finish(v, rad, prec))
+    super::exp_of_log(
+        z,
+        prec,
+        guard,
+        false,
+        "barnes_g",
+        "use log_barnes_g, or the arbitrary-precision path",
+        log_barnes_g,
+    )
 }
 
 fn eval<C: ComplexField>(z: &C, wp: u32) -> Core<C> {

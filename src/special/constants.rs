@@ -25,21 +25,12 @@ pub(crate) fn build<R: RealField>(prec: u32, _len: usize) -> Vec<R> {
     let gamma = Float::with_val(wp, Constant::Euler);
     let zp = zeta_prime_minus_one_float(wp);
     let mut v = vec![R::from_f64(0.0, prec); COUNT];
-    v[PI] = R::from_float(&pi.with_prec_round(prec));
-    v[LN_2PI] = R::from_float(&ln_2pi.with_prec_round(prec));
-    v[HALF_LN_2PI] = R::from_float(&half.with_prec_round(prec));
-    v[EULER_GAMMA] = R::from_float(&gamma.with_prec_round(prec));
-    v[ZETA_PRIME_MINUS_ONE] = R::from_float(&zp.with_prec_round(prec));
+    v[PI] = R::from_float(&Float::with_val(prec, &pi));
+    v[LN_2PI] = R::from_float(&Float::with_val(prec, &ln_2pi));
+    v[HALF_LN_2PI] = R::from_float(&Float::with_val(prec, &half));
+    v[EULER_GAMMA] = R::from_float(&Float::with_val(prec, &gamma));
+    v[ZETA_PRIME_MINUS_ONE] = R::from_float(&Float::with_val(prec, &zp));
     v
-}
-
-trait RoundTo {
-    fn with_prec_round(self, prec: u32) -> Float;
-}
-impl RoundTo for Float {
-    fn with_prec_round(self, prec: u32) -> Float {
-        Float::with_val(prec, &self)
-    }
 }
 
 /// ζ'(−1) at `wp` bits (internal; adds its own guard bits).

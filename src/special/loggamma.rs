@@ -32,9 +32,8 @@
 //! `(#operations) · 2^−wp · (largest intermediate term)` + final rounding.
 
 use super::{
-    adaptive, asymptotic_radius, check_arg, constant, finish, log2_bernoulli_even,
-    log2_sec2_half_arg, nonpositive_integer, pole_guard, real_poly_at, reflect_below, shift_for,
-    show, Core,
+    adaptive, asymptotic_radius, check_arg, constant, log2_bernoulli_even, log2_sec2_half_arg,
+    nonpositive_integer, pole_guard, real_poly_at, reflect_below, shift_for, show, Core,
 };
 use crate::error::{Error, Result};
 use crate::num::tables::{constant as k, TableKind};
@@ -272,12 +271,7 @@ pub fn log_gamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
         });
     }
     if z.im().is_zero() && matches!(exact_integer(&z.re()), Some(1) | Some(2)) {
-        let out = C::from_i64(0, C::MAX_PREC.unwrap_or(prec.bits()));
-        return Ok(Approx::new(
-            out,
-            Radius::ZERO,
-            C::MAX_PREC.unwrap_or(prec.bits()),
-        ));
+        return Ok(super::exact_zero(prec));
     }
     let zero = C::Real::from_f64(0.0, 53);
     let lower = z.im() < zero;
@@ -467,8 +461,7 @@ pub fn gamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
 pub fn rgamma<C: ComplexField>(z: &C, prec: Prec) -> Result<Approx<C>> {
     check_arg("rgamma", "z", z, prec)?;
     if nonpositive_integer(z).is_some() {
-        let p = C::MAX_PREC.unwrap_or(prec.bits());
-        return Ok(Approx::new(C::from_i64(0, p), Radius::ZERO, p));
+        return Ok(super::exact_zero(prec));
     }
     exp_of_log_gamma(z, prec, true, "rgamma")
 }
@@ -482,25 +475,13 @@ fn exp_of_log_gamma<C: ComplexField>(
     // |log Γ| ~ |z| ln|z|: its absolute error becomes the relative error of Γ.
     let l2 = z.log2_abs().max(1.0);
     let guard = (l2 + l2.log2().max(0.0)).ceil() as u32 + 8;
-    let inner = if C::MAX_PREC.is_some() {
-        prec
-    } else {
-        Prec::from_bits(prec.bits() as u64 + guard as u64).map_err(|_| Error::Domain {
-            function,
-            message: "the argument is too large for the requested precision".into(),
-        })?
-    };
-    let lg = log_gamma(z, inner)?;
-    let arg = if reciprocal { -lg.value } else { lg.value };
-    if C::MAX_PREC.is_some() && arg.re_f64() > 709.0 {
-        return Err(Error::Overflow {
-            function,
-            hint: "use log_gamma, or the arbitrary-precision path",
-        });
-    }
-    let v = arg.exp();
-    // δ|Γ| ≈ |Γ| · δ(log Γ) (+ a few ulps when exponentiating).
-    let rel = lg.radius + Radius::from_log2(-(inner.bits() as f64) + 2.0);
-    let rad = Radius::from_log2(v.log2_abs() + rel.log2());
-    Ok(finish(v, rad, prec))
+    super::exp_of_log(
+        z,
+        prec,
+        guard,
+        reciprocal,
+        function,
+        "use log_gamma, or the arbitrary-precision path",
+        log_gamma,
+    )
 }

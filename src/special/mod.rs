@@ -88,7 +88,7 @@ pub(crate) fn finish<C: ComplexField>(
     radius: Radius,
     prec: Prec,
 ) -> crate::precision::Approx<C> {
-    let out_prec = C::MAX_PREC.map_or(prec.bits(), |m| m.min(prec.bits()).max(m));
+    let out_prec = C::MAX_PREC.unwrap_or(prec.bits());
     let rounded = v.with_prec(out_prec);
     let r = radius + Radius::from_log2(v.log2_abs() - out_prec as f64);
     crate::precision::Approx::new(rounded, r, out_prec)
@@ -263,6 +263,26 @@ pub(crate) fn real_poly_at<C: ComplexField>(c: &[C::Real], u: &C) -> C {
     u.clone().mul_real(&a).add_real(&b)
 }
 
+/// An exact zero (radius 0) at the precision a result of `prec` carries.
+pub(crate) fn exact_zero<C: ComplexField>(prec: Prec) -> crate::precision::Approx<C> {
+    let p = C::MAX_PREC.unwrap_or(prec.bits());
+    crate::precision::Approx::new(C::from_i64(0, p), Radius::ZERO, p)
+}
+
+/// Evaluates `mp` on MPFR at the double input `z` (exactly representable)
+/// and rounds the result back to `f64`, adding the rounding to the radius.
+pub(crate) fn on_mpfr<C: ComplexField>(
+    z: &C,
+    prec: Prec,
+    mp: impl Fn(&rug::Complex, Prec) -> Result<crate::precision::Approx<rug::Complex>>,
+) -> Result<crate::precision::Approx<C>> {
+    let zm = rug::Complex::with_val(53, (z.re_f64(), z.im_f64()));
+    let m = mp(&zm, prec)?;
+    let v = C::from_f64(m.value.real().to_f64(), m.value.imag().to_f64(), 53);
+    let rad = m.radius + Radius::from_log2(v.log2_abs() - 53.0);
+    Ok(crate::precision::Approx::new(v, rad, 53))
+}
+
 /// On the double path, if the estimated relative error exceeds `2^−46`
 /// (about 1.4e-14), recomputes with `mp` on MPFR at 53 bits (plus the
 /// routine's own guard bits) and rounds back to `f64`. Otherwise returns `r`.
@@ -274,9 +294,37 @@ pub(crate) fn refine_double<C: ComplexField>(
     if C::MAX_PREC.is_none() || r.radius.log2() - r.value.log2_abs() <= -46.0 {
         return Ok(r);
     }
-    let zm = rug::Complex::with_val(53, (z.re_f64(), z.im_f64()));
-    let m = mp(&zm, Prec::DOUBLE)?;
-    let v = C::from_f64(m.value.real().to_f64(), m.value.imag().to_f64(), 53);
-    let rad = m.radius + Radius::from_log2(v.log2_abs() - 53.0);
-    Ok(crate::precision::Approx::new(v, rad, 53))
+    on_mpfr(z, Prec::DOUBLE, mp)
+}
+
+/// `exp(±L)` for a logarithm `L = log f(z)` computed by `log_f` with `guard`
+/// extra bits: the absolute error of `L` becomes the relative error of the
+/// result. `Error::Overflow` on the double path past its exponent range.
+pub(crate) fn exp_of_log<C: ComplexField>(
+    z: &C,
+    prec: Prec,
+    guard: u32,
+    negate: bool,
+    function: &'static str,
+    hint: &'static str,
+    log_f: impl Fn(&C, Prec) -> Result<crate::precision::Approx<C>>,
+) -> Result<crate::precision::Approx<C>> {
+    let inner = if C::MAX_PREC.is_some() {
+        prec
+    } else {
+        Prec::from_bits(prec.bits() as u64 + guard as u64).map_err(|_| Error::Domain {
+            function,
+            message: "the argument is too large for the requested precision".into(),
+        })?
+    };
+    let lg = log_f(z, inner)?;
+    let arg = if negate { -lg.value } else { lg.value };
+    if C::MAX_PREC.is_some() && arg.re_f64() > 709.0 {
+        return Err(Error::Overflow { function, hint });
+    }
+    let v = arg.exp();
+    // δf ≈ |f| · δL (+ a few ulps when exponentiating).
+    let rel = lg.radius + Radius::from_log2(-(inner.bits() as f64) + 2.0);
+    let rad = Radius::from_log2(v.log2_abs() + rel.log2());
+    Ok(finish(v, rad, prec))
 }

@@ -8,8 +8,10 @@
 mod coef;
 mod gamma_product;
 pub mod known;
+mod pieces;
 
 pub use coef::Coef;
 pub use gamma_product::{
     Condition, Convergence, FactorValue, GammaProduct, GammaTerm, Method, Representation, Scale,
 };
+pub use pieces::{BarnesFactor, CddBlock, FiniteGamma};

@@ -81,6 +81,13 @@ pub enum Error {
         /// What is wrong and what is accepted.
         message: String,
     },
+    /// A model file (see docs/model-format.md) is malformed or inconsistent.
+    Model {
+        /// File, line and column (`model.toml:12:5`), or the file alone.
+        location: String,
+        /// What is wrong and what to change.
+        message: String,
+    },
     /// An expression (see [`crate::expr`]) failed to parse or to evaluate.
     /// Displays as the source with a caret under `column` when it is known
     /// ([`crate::expr::render`]).
@@ -146,6 +153,7 @@ impl fmt::Display for Error {
                 "{what} did not reach the requested accuracy (best error estimate {achieved}); {hint}"
             ),
             Error::Domain { function, message } => write!(f, "{function}: {message}"),
+            Error::Model { location, message } => write!(f, "{location}: {message}"),
             Error::Expression {
                 location,
                 expr,

@@ -22,6 +22,7 @@ pub mod cli;
 pub mod error;
 pub mod expr;
 pub mod factor;
+pub mod model;
 pub mod num;
 pub mod precision;
 pub mod quadrature;

@@ -71,3 +71,127 @@ fn user_errors_name_the_option_and_exit_nonzero() {
     assert_eq!(code, 2);
     assert!(err.contains("fewer digits"), "{err}");
 }
+
+fn example(name: &str) -> String {
+    format!("{}/examples/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+/// `dressing eval` works on every example model, on every factor.
+#[test]
+fn eval_runs_on_every_example_model() {
+    let dir = format!("{}/examples", env!("CARGO_MANIFEST_DIR"));
+    let mut seen = 0;
+    for entry in std::fs::read_dir(dir).unwrap() {
+        let path = entry.unwrap().path();
+        if path.extension().is_none_or(|e| e != "toml") {
+            continue;
+        }
+        let p = path.to_str().unwrap();
+        let model = dressing::model::Model::load(p).unwrap();
+        for f in model.factors() {
+            let (code, out, err) = dressing(&[
+                "eval",
+                p,
+                "--factor",
+                f.name(),
+                "--at",
+                "0.7+0.2i",
+                "--digits",
+                "25",
+            ]);
+            assert_eq!(code, 0, "{p} {}: {out}{err}", f.name());
+            assert!(out.contains("S        ="), "{out}");
+            seen += 1;
+        }
+    }
+    assert!(seen >= 3);
+}
+
+#[test]
+fn eval_verify_and_json() {
+    let m = example("lantern.toml");
+    let (code, out, _) = dressing(&[
+        "eval", &m, "--at", "0.7+0.2i", "--at", "i*pi/3", "--digits", "30", "--verify",
+    ]);
+    assert_eq!(code, 0, "{out}");
+    // Product form against the integral form: two independent representations.
+    assert_eq!(
+        out.matches("verify: integral form agrees to 3").count(),
+        2,
+        "{out}"
+    );
+    let (code, out, _) = dressing(&["eval", &m, "--at", "0.5", "--digits", "40", "--json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let p = &v["points"][0];
+    // Full precision as decimal strings.
+    let re = p["value"]["re"].as_str().unwrap();
+    assert!(re.len() >= 40, "{re}");
+    assert!(p["correct_digits"].as_f64().unwrap() >= 39.0);
+    assert_eq!(p["pieces"][0]["kind"], "gamma-product");
+}
+
+#[test]
+fn eval_points_file_line_and_set() {
+    let m = example("lantern.toml");
+    let dir = std::env::temp_dir().join(format!("dressing-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let pts = dir.join("points.txt");
+    std::fs::write(
+        &pts,
+        "# rapidities\n0.1\n0.2+0.1i  # inline comment\n\ni*pi/5\n",
+    )
+    .unwrap();
+    let (code, out, _) = dressing(&[
+        "eval",
+        &m,
+        "--points",
+        pts.to_str().unwrap(),
+        "--set",
+        "g=1/4",
+    ]);
+    assert_eq!(code, 0, "{out}");
+    assert_eq!(out.matches("\nθ = ").count(), 3, "{out}");
+    let (code, out, _) = dressing(&["eval", &m, "--line=-2:2", "--n", "5", "--json"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["points"].as_array().unwrap().len(), 5);
+    let bad = dir.join("bad.txt");
+    std::fs::write(&bad, "0.1\n0.3+\n").unwrap();
+    let (code, _, err) = dressing(&["eval", &m, "--points", bad.to_str().unwrap()]);
+    assert_eq!(code, 2);
+    assert!(err.contains("bad.txt:2"), "{err}");
+}
+
+#[test]
+fn eval_errors_exit_nonzero_with_the_place() {
+    let m = example("lantern.toml");
+    // A pole: reported as a pole with its order, exit status 1.
+    let (code, out, _) = dressing(&[
+        "eval", &m, "--factor", "lamp", "--at", "-i*pi*g", "--digits", "20",
+    ]);
+    assert_eq!(code, 1, "{out}");
+    assert!(out.contains("pole of order 1"), "{out}");
+    let (code, _, err) = dressing(&["eval", "/nonexistent.toml", "--at", "1"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("cannot read"), "{err}");
+    let (code, _, err) = dressing(&["eval", &m, "--factor", "nope", "--at", "1"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("sigma, dressed, lamp"), "{err}");
+    let (code, _, err) = dressing(&["eval", &m, "--at", "1", "--digits", "999999"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--digits"), "{err}");
+    let (code, _, err) = dressing(&["eval", &m]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--at"), "{err}");
+    let (code, _, err) = dressing(&["eval", &m, "--at", "1", "--set", "g"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("NAME=EXPR"), "{err}");
+    let dir = std::env::temp_dir().join(format!("dressing-cli-bad-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let f = dir.join("bad.toml");
+    std::fs::write(&f, "[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = \"1/3 +\" }]\n").unwrap();
+    let (code, _, err) = dressing(&["eval", f.to_str().unwrap(), "--at", "1"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("bad.toml:5:"), "{err}");
+}

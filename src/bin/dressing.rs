@@ -5,9 +5,13 @@ use clap::Parser;
 fn main() -> std::process::ExitCode {
     let cli = dressing::cli::Cli::parse();
     match dressing::cli::run(cli) {
-        Ok(out) => {
-            print!("{out}");
-            std::process::ExitCode::SUCCESS
+        Ok(report) => {
+            print!("{}", report.stdout);
+            if report.failed {
+                std::process::ExitCode::from(1)
+            } else {
+                std::process::ExitCode::SUCCESS
+            }
         }
         Err(msg) => {
             eprintln!("error: {msg}");

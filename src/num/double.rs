@@ -237,6 +237,9 @@ impl ComplexField for Complex64 {
         }
         (w * Complex64::ln(*self)).exp()
     }
+    fn to_complex(&self) -> rug::Complex {
+        rug::Complex::with_val(53, (self.re, self.im))
+    }
     fn to_decimal(&self, digits: usize) -> String {
         let d = digits.clamp(1, 17);
         format!("{:.*e} {:+.*e}i", d - 1, self.re, d - 1, self.im)

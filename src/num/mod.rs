@@ -234,6 +234,8 @@ pub trait ComplexField:
     }
     /// Writes the value with `digits` significant digits, as `re + im i`.
     fn to_decimal(&self, digits: usize) -> String;
+    /// The value as a [`rug::Complex`], exactly (at the value's own precision).
+    fn to_complex(&self) -> rug::Complex;
 }
 
 pub use multi::MpComplex;

@@ -237,6 +237,9 @@ impl ComplexField for Complex {
     fn pow(&self, w: &Self) -> Self {
         self.clone().pow(w)
     }
+    fn to_complex(&self) -> rug::Complex {
+        self.clone()
+    }
     fn to_decimal(&self, digits: usize) -> String {
         let d = digits.max(1);
         let re = self.real().to_string_radix(10, Some(d));

@@ -1,0 +1,306 @@
+//! A named scalar factor of a model: a product of pieces (infinite gamma
+//! products, finite gamma and Barnes G factors, CDD blocks, elementary
+//! expressions), evaluated as the sum of the pieces' logarithms with the
+//! orders of poles and zeros added up across pieces.
+
+use super::params::Parameters;
+use crate::error::{Error, Result};
+use crate::expr::Expr;
+use crate::factor::{BarnesFactor, CddBlock, FiniteGamma, GammaProduct, Method, Scale};
+use crate::num::{ComplexField, RealField};
+use crate::precision::{Approx, Prec, Radius};
+use rug::Complex;
+use std::sync::Arc;
+
+/// One multiplicative piece of a factor.
+#[derive(Debug)]
+pub enum Piece {
+    /// `Π_k Π_j Γ(a_j k + b_j + s_j z)^{n_j}`, possibly normalised.
+    Product(GammaProduct),
+    /// `Π_j Γ(b_j + s_j z)^{n_j}`.
+    Gamma(FiniteGamma),
+    /// `Π_j G(b_j + s_j z)^{n_j}`.
+    Barnes(BarnesFactor),
+    /// `Π_j f_{α_j}(θ)^{n_j}`, the standard CDD blocks.
+    Cdd(CddBlock),
+    /// An elementary expression in θ, z and the parameters.
+    Expression(ExpressionPiece),
+}
+
+/// An elementary prefactor written in the expression language, either as
+/// its value or as its logarithm.
+#[derive(Debug, Clone)]
+pub struct ExpressionPiece {
+    /// The expression.
+    pub expr: Expr,
+    /// Whether `expr` is the logarithm of the piece (else its value).
+    pub is_log: bool,
+    pub(crate) params: Arc<Parameters>,
+    pub(crate) scale: Scale,
+}
+
+/// How one piece was computed at one point.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PieceReport {
+    /// The kind of piece (`gamma-product`, `gamma`, `barnes`, `cdd`, `expression`).
+    pub kind: &'static str,
+    /// The representation used, in words.
+    pub how: String,
+}
+
+/// `log S` at one point as the sum of the pieces' logarithms (each on its
+/// own principal branch; [`super::Model`] fixes the branch by continuation).
+#[derive(Clone, Debug)]
+pub struct LogSum<C> {
+    /// The sum, with the sum of the pieces' error estimates.
+    pub log: Approx<C>,
+    /// One report per piece, in order.
+    pub pieces: Vec<PieceReport>,
+}
+
+/// A scalar factor: a name and a product of pieces.
+#[derive(Debug)]
+pub struct Factor {
+    pub(crate) name: String,
+    pub(crate) description: Option<String>,
+    pub(crate) pieces: Vec<Piece>,
+}
+
+/// A pole (order > 0) or zero (order < 0) met at a point, or a removable
+/// point (order 0) where they cancel.
+enum Singular {
+    Order(i64),
+}
+
+fn singular(e: &Error) -> Option<Singular> {
+    match e {
+        Error::Pole { order, .. } => Some(Singular::Order(*order as i64)),
+        Error::Zero { order, .. } => Some(Singular::Order(-(*order as i64))),
+        Error::Domain { message, .. } if message.contains("removable") => Some(Singular::Order(0)),
+        _ => None,
+    }
+}
+
+impl Factor {
+    /// The factor's name.
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+
+    /// Its description, if the model gives one.
+    pub fn description(&self) -> Option<&str> {
+        self.description.as_deref()
+    }
+
+    /// The pieces.
+    pub fn pieces(&self) -> &[Piece] {
+        &self.pieces
+    }
+
+    /// The intersection of the strips `lo < Im θ < hi` of the gamma
+    /// products' integral forms (`None` if there are no gamma products or
+    /// one of them has no integral form).
+    pub fn strip(&self) -> Option<(f64, f64)> {
+        let mut out: Option<(f64, f64)> = None;
+        for p in &self.pieces {
+            if let Piece::Product(g) = p {
+                let (lo, hi) = g.strip()?;
+                out = Some(match out {
+                    None => (lo, hi),
+                    Some((a, b)) => (a.max(lo), b.min(hi)),
+                });
+            }
+        }
+        out
+    }
+
+    /// `Σ log(piece)` at θ, at `prec`, with `method` for the gamma products.
+    ///
+    /// Errors: [`Error::Pole`] / [`Error::Zero`] with the order summed over
+    /// all pieces; [`Error::Domain`] at a removable point (the orders
+    /// cancel) or where a piece cannot be evaluated.
+    pub fn log_sum<C: ComplexField>(
+        &self,
+        theta: &C,
+        prec: Prec,
+        method: Method,
+    ) -> Result<LogSum<C>> {
+        let mut total: Option<C> = None;
+        let mut radius = Radius::ZERO;
+        let mut reports = Vec::with_capacity(self.pieces.len());
+        let mut order = 0i64;
+        let mut met = false;
+        let mut first_singular: Option<Error> = None;
+        for piece in &self.pieces {
+            let r = piece.log_value(theta, prec, method);
+            match r {
+                Ok((v, rep)) => {
+                    radius += v.radius;
+                    total = Some(match total {
+                        None => v.value,
+                        Some(t) => t + &v.value,
+                    });
+                    reports.push(rep);
+                }
+                Err(e) => match singular(&e) {
+                    Some(Singular::Order(o)) => {
+                        met = true;
+                        order += o;
+                        first_singular.get_or_insert(e);
+                    }
+                    None => return Err(e),
+                },
+            }
+        }
+        if met {
+            let at = format!("θ = {}", theta.to_decimal(17));
+            let function = "factor";
+            return Err(match order {
+                o if o > 0 => Error::Pole {
+                    function,
+                    order: o as u32,
+                    at: format!("{at} (factor `{}`)", self.name),
+                },
+                o if o < 0 => Error::Zero {
+                    function,
+                    order: (-o) as u32,
+                    at: format!("{at} (factor `{}`)", self.name),
+                },
+                _ => Error::Domain {
+                    function,
+                    message: format!(
+                        "poles and zeros of the pieces of `{}` cancel at {at} (a removable \
+                         point); evaluate at a nearby rapidity",
+                        self.name
+                    ),
+                },
+            });
+        }
+        let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
+        let value = total.unwrap_or_else(|| C::from_i64(0, p));
+        Ok(LogSum {
+            log: Approx::new(value, radius, p),
+            pieces: reports,
+        })
+    }
+}
+
+impl Piece {
+    /// The kind, as written in model files.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Piece::Product(_) => "gamma-product",
+            Piece::Gamma(_) => "gamma",
+            Piece::Barnes(_) => "barnes",
+            Piece::Cdd(_) => "cdd",
+            Piece::Expression(_) => "expression",
+        }
+    }
+
+    /// The piece's logarithm at θ.
+    pub fn log_value<C: ComplexField>(
+        &self,
+        theta: &C,
+        prec: Prec,
+        method: Method,
+    ) -> Result<(Approx<C>, PieceReport)> {
+        let kind = self.kind();
+        let direct = |v: Approx<C>| {
+            (
+                v,
+                PieceReport {
+                    kind,
+                    how: "closed form".into(),
+                },
+            )
+        };
+        match self {
+            Piece::Product(g) => {
+                let v = g.log_value(theta, prec, method)?;
+                Ok((
+                    v.log,
+                    PieceReport {
+                        kind,
+                        how: v.representation.to_string(),
+                    },
+                ))
+            }
+            Piece::Gamma(g) => g.log_value(theta, prec).map(direct),
+            Piece::Barnes(g) => g.log_value(theta, prec).map(direct),
+            Piece::Cdd(c) => c.log_value(theta, prec).map(direct),
+            Piece::Expression(e) => e.log_value(theta, prec).map(direct),
+        }
+    }
+}
+
+impl ExpressionPiece {
+    /// The piece's logarithm at θ: the expression evaluated at the working
+    /// precision and again 32 bits higher; the difference (plus a rounding
+    /// allowance) is the error estimate, so cancellation inside the formula
+    /// shows up in the radius.
+    pub fn log_value<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
+        let wp = match C::MAX_PREC {
+            Some(m) => m,
+            None => prec.bits() + 16,
+        };
+        let lo: C = self.eval_at(theta, wp)?;
+        let theta_hi = to_rug(theta, wp + 32);
+        let hi: Complex = self.eval_at(&theta_hi, wp + 32)?;
+        let lo_c = to_rug(&lo, wp + 32);
+        let diff = Complex::with_val(wp + 32, &hi - &lo_c);
+        let mut radius = Radius::from_log2(diff.log2_abs()).times(2.0);
+        radius += Radius::from_log2(lo.log2_abs() - p as f64 + 1.0);
+        Ok(Approx::new(lo, radius, p))
+    }
+
+    fn eval_at<C: ComplexField>(&self, theta: &C, wp: u32) -> Result<C> {
+        let vals = self.params.at(wp)?;
+        let mut env: Vec<(&str, C)> = vals
+            .iter()
+            .map(|(n, v)| (n.as_str(), from_rug::<C>(v, wp)))
+            .collect();
+        env.push(("theta", theta.with_prec(wp)));
+        env.push(("z", self.scale.z_of(&theta.with_prec(wp))));
+        let v: C = self.expr.eval(&env, wp).map_err(|e| match e {
+            Error::Expression { message, .. } if message.contains("division by zero") => {
+                Error::Domain {
+                    function: "expression piece",
+                    message: format!(
+                        "`{}` divides by zero at θ = {} (a pole of the piece); evaluate at a \
+                         nearby rapidity",
+                        self.expr,
+                        theta.to_decimal(17)
+                    ),
+                }
+            }
+            other => other,
+        })?;
+        if self.is_log {
+            return Ok(v);
+        }
+        if v.is_zero() {
+            return Err(Error::Domain {
+                function: "expression piece",
+                message: format!(
+                    "`{}` vanishes at θ = {}; its logarithm is singular there",
+                    self.expr,
+                    theta.to_decimal(17)
+                ),
+            });
+        }
+        Ok(v.ln())
+    }
+}
+
+/// A `rug` value on either path.
+pub(crate) fn from_rug<C: ComplexField>(v: &Complex, wp: u32) -> C {
+    let re = rug::Float::with_val(wp, v.real());
+    let im = rug::Float::with_val(wp, v.imag());
+    C::from_reals(C::Real::from_float(&re), C::Real::from_float(&im))
+}
+
+/// Either path's value as a `rug` value at `wp` bits.
+pub(crate) fn to_rug<C: ComplexField>(v: &C, wp: u32) -> Complex {
+    Complex::with_val(wp, v.to_complex())
+}

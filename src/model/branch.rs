@@ -9,6 +9,11 @@
 //! precision, where it is cheap: the segment is bisected until, on every
 //! piece, the phase changes by less than 0.5 rad in each half and the two
 //! halves agree with the whole (so no full turn can hide between samples).
+//! Poles and zeros often sit on the segment itself (on the imaginary axis,
+//! for θ = iu); then the segment is displaced by η = 10⁻³(1 + |to − from|)
+//! to the right (+Re θ; upwards, +Im θ, for a horizontal segment) and joined
+//! to its ends by short steps, so singular points on the segment are passed
+//! on the left and points on the imaginary axis are reached from Re θ > 0.
 //! The high-precision value is then moved by the multiple of 2πi that puts
 //! it nearest the continued double value.
 
@@ -33,6 +38,30 @@ fn wrap(d: f64) -> f64 {
 /// sum of principal logs at double precision. Returns the continued
 /// imaginary part at `to`.
 pub(crate) fn continue_phase(
+    eval: &(dyn Fn(Complex64) -> Result<Complex64> + Sync),
+    from: Complex64,
+    im_from: f64,
+    to: Complex64,
+) -> Result<f64> {
+    match straight(eval, from, im_from, to) {
+        Ok(im) => Ok(im),
+        Err(first) => {
+            let d = to - from;
+            let eta = 1e-3 * (1.0 + d.norm());
+            let shift = if d.re.abs() > 1e3 * d.im.abs() {
+                Complex64::new(0.0, eta)
+            } else {
+                Complex64::new(eta, 0.0)
+            };
+            let a = straight(eval, from, im_from, from + shift);
+            let b = a.and_then(|im| straight(eval, from + shift, im, to + shift));
+            b.and_then(|im| straight(eval, to + shift, im, to))
+                .map_err(|_| first)
+        }
+    }
+}
+
+fn straight(
     eval: &(dyn Fn(Complex64) -> Result<Complex64> + Sync),
     from: Complex64,
     im_from: f64,
@@ -130,5 +159,24 @@ mod tests {
         let closed = continue_phase(&f, Complex64::new(1.0, 2.0), back, from).unwrap();
         // counter-clockwise around two zeros: +4π
         assert!((closed - im0 - 4.0 * PI).abs() < 1e-12, "{closed} {im0}");
+    }
+
+    /// A zero on the segment itself is passed on its left: the path is
+    /// moved to Re θ > 0, so arg(θ − i/2) goes −π/2 → 0 → π/2.
+    #[test]
+    fn singular_point_on_the_segment_is_passed_on_the_left() {
+        let f = |t: Complex64| -> Result<Complex64> {
+            if (t - Complex64::new(0.0, 0.5)).norm() == 0.0 {
+                return Err(Error::Zero {
+                    function: "test",
+                    order: 1,
+                    at: String::new(),
+                });
+            }
+            Ok((t - Complex64::new(0.0, 0.5)).ln())
+        };
+        let from = Complex64::new(0.0, 0.0);
+        let im = continue_phase(&f, from, f(from).unwrap().im, Complex64::new(0.0, 2.0)).unwrap();
+        assert!((im - PI / 2.0).abs() < 1e-12, "{im}");
     }
 }

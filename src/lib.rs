@@ -19,6 +19,7 @@
 #![warn(missing_docs)]
 
 pub mod cli;
+pub mod equations;
 pub mod error;
 pub mod expr;
 pub mod factor;

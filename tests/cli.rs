@@ -195,3 +195,46 @@ fn eval_errors_exit_nonzero_with_the_place() {
     assert_eq!(code, 2);
     assert!(err.contains("bad.toml:5:"), "{err}");
 }
+
+#[test]
+fn check_passes_on_the_example_and_fails_on_a_wrong_equation() {
+    let m = example("lantern.toml");
+    let (code, out, _) = dressing(&["check", &m, "--digits", "30", "--points", "3"]);
+    assert_eq!(code, 0, "{out}");
+    assert_eq!(out.matches("  PASS").count(), 4, "{out}");
+    assert!(out.contains("not a proof"), "{out}");
+    let (code, out, _) = dressing(&[
+        "check",
+        &m,
+        "--equation",
+        "crossing",
+        "--json",
+        "--region",
+        "-1:1,4:5",
+        "--seed",
+        "7",
+    ]);
+    assert_eq!(code, 0, "{out}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["equations"][0]["passed"], true);
+    // A wrong right-hand side: exit status 1.
+    let dir = std::env::temp_dir().join(format!("dressing-check-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let f = dir.join("wrong.toml");
+    std::fs::write(
+        &f,
+        "[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = \"1/3\" }]\n\
+         [[equation]]\nname = \"bad\"\nproduct = [{ factor = \"S\", at = \"theta\" }]\nequals = \"2\"\n",
+    )
+    .unwrap();
+    let (code, out, _) = dressing(&["check", f.to_str().unwrap()]);
+    assert_eq!(code, 1, "{out}");
+    assert!(out.contains("FAIL"), "{out}");
+    // Bad options.
+    let (code, _, err) = dressing(&["check", &m, "--region", "1:2"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("RE0:RE1,IM0:IM1"), "{err}");
+    let (code, _, err) = dressing(&["check", &m, "--equation", "nope"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("unitarity, crossing"), "{err}");
+}

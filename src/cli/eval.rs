@@ -137,6 +137,17 @@ fn parse_set(set: &[String]) -> Result<Vec<(String, String)>, String> {
         .collect()
 }
 
+/// Loads a model file and applies `--set NAME=EXPR` overrides.
+pub(crate) fn load_model(path: &str, set: &[String]) -> Result<Model, String> {
+    let overrides = parse_set(set)?;
+    let model = Model::load(path).map_err(|e| e.to_string())?;
+    if overrides.is_empty() {
+        Ok(model)
+    } else {
+        model.with_parameters(&overrides).map_err(|e| e.to_string())
+    }
+}
+
 /// Reads `--points FILE`: one rapidity per line, `#` comments.
 fn read_points(path: &str) -> Result<Vec<(String, String)>, String> {
     let text = std::fs::read_to_string(path)

@@ -1,16 +1,18 @@
 //! The `dressing` command line.
 //!
 //! Subcommands: `demo` (the built-in demonstration), `special` (one of the
-//! special functions at points and a precision) and `eval` (a factor of a
-//! model file at rapidities). Every
+//! special functions at points and a precision), `eval` (a factor of a
+//! model file at rapidities) and `check` (the model's functional equations). Every
 //! error a user can cause comes back as a message naming the option and what
 //! to change, with a non-zero exit status.
 
+mod check;
 mod demo;
 mod eval;
 mod parse;
 mod special;
 
+pub use check::CheckArgs;
 pub use eval::EvalArgs;
 pub use parse::parse_complex;
 
@@ -62,6 +64,10 @@ pub enum Command {
     ///
     /// Example: dressing eval examples/ember.toml --at 0.7+0.2i --at i*pi/3 --digits 40 --verify
     Eval(EvalArgs),
+    /// Check the model's functional equations (unitarity, crossing, …) at sampled points.
+    ///
+    /// Example: dressing check examples/lantern.toml --digits 40 --region -1:1,4:6
+    Check(CheckArgs),
 }
 
 /// The special functions `dressing special` can evaluate.
@@ -117,6 +123,7 @@ pub fn run(cli: Cli) -> Result<Report, String> {
             json,
         } => special::special_cmd(function, &at, digits, order, json).map(Into::into),
         Command::Eval(args) => eval::eval_cmd(&args),
+        Command::Check(args) => check::check_cmd(&args),
     }
 }
 

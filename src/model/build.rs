@@ -5,9 +5,10 @@
 
 use super::factor::{ExpressionPiece, Factor, Piece};
 use super::params::{ParamError, Parameters};
-use super::schema::{GammaSpec, ModelFile, PieceSpec, Scalar};
+use super::schema::{EquationSpec, GammaSpec, ModelFile, PieceSpec, Scalar};
 use super::source::Source;
 use super::Model;
+use crate::equations::{Entry, Equation};
 use crate::error::{Error, Result};
 use crate::expr::Expr;
 use crate::factor::{BarnesFactor, CddBlock, Coef, FiniteGamma, GammaProduct, GammaTerm, Scale};
@@ -149,6 +150,20 @@ pub(crate) fn build(source: Source, overrides: &[(String, String)]) -> Result<Mo
              (docs/model-format.md)",
         ));
     }
+    let mut equations: Vec<Equation> = Vec::new();
+    for e in &file.equations {
+        let eq = build_equation(&source, e, &params, &factors)?;
+        if equations.iter().any(|q| q.name == eq.name) {
+            return Err(source.error(
+                e.get_ref().name.span(),
+                format!(
+                    "a second equation named `{}`; names must be unique",
+                    eq.name
+                ),
+            ));
+        }
+        equations.push(eq);
+    }
     let (name, description) = match &file.model {
         Some(m) => (m.name.clone(), m.description.clone()),
         None => (None, None),
@@ -162,8 +177,99 @@ pub(crate) fn build(source: Source, overrides: &[(String, String)]) -> Result<Mo
         z_text,
         base,
         factors,
+        equations,
         overrides.to_vec(),
     )
+}
+
+fn build_equation(
+    source: &Source,
+    e: &Spanned<EquationSpec>,
+    params: &Arc<Parameters>,
+    factors: &[Factor],
+) -> Result<Equation> {
+    let spec = e.get_ref();
+    let names: Vec<&str> = factors.iter().map(|f| f.name.as_str()).collect();
+    if spec.product.is_empty() {
+        return Err(source.error(
+            e.span(),
+            "an equation needs `product = [ { factor = \"…\", at = \"…\" }, … ]`",
+        ));
+    }
+    let mut entries = Vec::new();
+    for p in &spec.product {
+        let ps = p.get_ref();
+        let f = ps.factor.get_ref();
+        if !names.contains(&f.as_str()) {
+            return Err(source.error(
+                ps.factor.span(),
+                format!(
+                    "no factor named `{f}`; the factors are: {}",
+                    names.join(", ")
+                ),
+            ));
+        }
+        let at = source.expr(&ps.at)?;
+        check_names(
+            source,
+            ps.at.span(),
+            &at,
+            params,
+            &["theta"],
+            "the argument",
+        )?;
+        match at.affine_in("theta") {
+            Some((_, b)) if !b.to_string().eq("0") => {}
+            _ => {
+                return Err(source.error(
+                    ps.at.span(),
+                    format!(
+                        "the argument `{at}` must be affine in theta, a + b·theta with b ≠ 0 \
+                         (e.g. \"i*pi - theta\")"
+                    ),
+                ))
+            }
+        }
+        entries.push(Entry {
+            factor: f.clone(),
+            at,
+            power: power(source, ps.power.as_ref())?,
+            conjugate: ps.conjugate.unwrap_or(false),
+        });
+    }
+    let rhs = match &spec.equals {
+        None => Expr::parse("1").expect("literal"),
+        Some(v) => {
+            let r = source.scalar(v)?;
+            for v2 in r.free_variables() {
+                if v2 != "theta" && v2 != "z" && params.definition(&v2).is_none() {
+                    return Err(source.error(
+                        v.span(),
+                        format!("the right-hand side uses `{v2}`, which is not defined"),
+                    ));
+                }
+            }
+            for f in r.user_functions() {
+                if !names.contains(&f.as_str()) {
+                    return Err(source.error(
+                        v.span(),
+                        format!(
+                            "the right-hand side calls `{f}(…)`, which is neither a built-in \
+                             nor a factor of the model (factors: {})",
+                            names.join(", ")
+                        ),
+                    ));
+                }
+            }
+            r
+        }
+    };
+    Ok(Equation {
+        name: spec.name.get_ref().clone(),
+        description: spec.description.clone(),
+        entries,
+        rhs,
+    })
 }
 
 fn list<'a>(names: impl Iterator<Item = &'a String>) -> String {

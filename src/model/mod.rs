@@ -55,6 +55,7 @@ pub struct Model {
     base: Expr,
     base_f64: Complex64,
     factors: Vec<Factor>,
+    pub(crate) equations: Vec<crate::equations::Equation>,
     overrides: Vec<(String, String)>,
 }
 
@@ -141,6 +142,7 @@ impl Model {
         z_text: String,
         base: Expr,
         factors: Vec<Factor>,
+        equations: Vec<crate::equations::Equation>,
         overrides: Vec<(String, String)>,
     ) -> Result<Model> {
         let vals = params.at(64)?;
@@ -158,6 +160,7 @@ impl Model {
             base,
             base_f64,
             factors,
+            equations,
             overrides,
         };
         // The base point must be a regular point of every factor.

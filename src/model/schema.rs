@@ -16,6 +16,28 @@ pub(crate) struct ModelFile {
     pub parameters: BTreeMap<String, Spanned<Scalar>>,
     #[serde(default, rename = "factor")]
     pub factors: Vec<Spanned<FactorSpec>>,
+    #[serde(default, rename = "equation")]
+    pub equations: Vec<Spanned<EquationSpec>>,
+}
+
+/// `[[equation]]`: `Π product = equals`.
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(crate) struct EquationSpec {
+    pub name: Spanned<String>,
+    pub description: Option<String>,
+    pub product: Vec<Spanned<EntrySpec>>,
+    pub equals: Option<Spanned<Scalar>>,
+}
+
+/// One entry of an equation's product: `factor(at)^power`.
+#[derive(Deserialize, Debug)]
+#[serde(deny_unknown_fields)]
+pub(crate) struct EntrySpec {
+    pub factor: Spanned<String>,
+    pub at: Spanned<String>,
+    pub power: Option<Spanned<i64>>,
+    pub conjugate: Option<bool>,
 }
 
 /// `[model]`: descriptive only.

@@ -1,0 +1,240 @@
+//! Functional equations checked point by point, against published
+//! factors, and the equation syntax's bad input.
+
+use dressing::equations::{check_equation, CheckOptions, Region};
+use dressing::model::Model;
+use dressing::Prec;
+use rug::Complex;
+
+/// The sine-Gordon soliton–soliton factor −S₀ as a model file, with
+/// unitarity and crossing S₀(iπ−θ) = [sinh(πθ/ξ)/sinh(π(iπ−θ)/ξ)] S₀(θ)
+/// (Zamolodchikov & Zamolodchikov, Ann. Phys. 120 (1979) 253; the crossing
+/// factor is written from memory and the numbers decide).
+fn sine_gordon(xi: &str) -> Model {
+    let text = format!(
+        r#"
+[parameters]
+xi = "{xi}"
+p = "pi/xi"
+[[factor]]
+name = "minus_S0"
+[[factor.piece]]
+kind = "gamma-product"
+gammas = [
+  {{ arg = "2*p*k + 1 - p*z" }}, {{ arg = "2*p*k + 2*p - p*z" }},
+  {{ arg = "2*p*k + 1 + p + p*z" }}, {{ arg = "2*p*k + p + p*z" }},
+  {{ arg = "2*p*k + 1 + p*z", power = -1 }}, {{ arg = "2*p*k + 2*p + p*z", power = -1 }},
+  {{ arg = "2*p*k + 1 + p - p*z", power = -1 }}, {{ arg = "2*p*k + p - p*z", power = -1 }},
+]
+[[equation]]
+name = "unitarity"
+product = [ {{ factor = "minus_S0", at = "theta" }}, {{ factor = "minus_S0", at = "-theta" }} ]
+[[equation]]
+name = "crossing"
+product = [ {{ factor = "minus_S0", at = "i*pi - theta" }}, {{ factor = "minus_S0", at = "theta", power = -1 }} ]
+equals = "sinh(pi*theta/xi) / sinh(pi*(i*pi - theta)/xi)"
+"#
+    );
+    Model::from_toml(&text, "sine-gordon.toml").unwrap()
+}
+
+/// Crossing at points where θ lies in the integral's strip |Im θ| < ξ and
+/// iπ − θ far outside it, to 50 digits, for ξ below 1, at 2π/7 and above π/2.
+#[test]
+fn sine_gordon_unitarity_and_crossing_to_50_digits() {
+    let prec = Prec::digits(50).unwrap();
+    for xi in ["0.6", "2*pi/7", "1.9"] {
+        let m = sine_gordon(xi);
+        let (lo, hi) = m.factor("minus_S0").unwrap().strip().unwrap();
+        for (x, y) in [(0.7, 0.2), (-1.3, 0.05), (0.25, -0.3), (2.0, 0.4)] {
+            assert!(y > lo && y < hi);
+            // iπ − θ has Im = π − y, outside the strip.
+            assert!(std::f64::consts::PI - y > hi + 0.5);
+            let t = Complex::with_val(prec.bits() + 32, (x, y));
+            for eq in m.equations() {
+                let r = m.residual(eq, &t, prec).unwrap();
+                assert!(
+                    r.digits(60.0) > 49.0,
+                    "ξ = {xi}, {} at θ = {x}{y:+}i: {:.1} digits",
+                    eq.name,
+                    r.digits(60.0)
+                );
+            }
+        }
+        // And over the default regions at 30 digits.
+        let opts = CheckOptions::new(30).unwrap();
+        for eq in m.equations() {
+            let r = check_equation(&m, eq, &opts);
+            assert!(r.passed && r.checked >= 18, "ξ = {xi} {}: {r:?}", eq.name);
+        }
+    }
+}
+
+/// A crossing factor with the wrong sign of the exponent must fail: the
+/// check can fail.
+#[test]
+fn a_wrong_right_hand_side_fails() {
+    let text = r#"
+[parameters]
+xi = "2*pi/7"
+p = "pi/xi"
+[[factor]]
+name = "minus_S0"
+[[factor.piece]]
+kind = "gamma-product"
+gammas = [
+  { arg = "2*p*k + 1 - p*z" }, { arg = "2*p*k + 2*p - p*z" },
+  { arg = "2*p*k + 1 + p + p*z" }, { arg = "2*p*k + p + p*z" },
+  { arg = "2*p*k + 1 + p*z", power = -1 }, { arg = "2*p*k + 2*p + p*z", power = -1 },
+  { arg = "2*p*k + 1 + p - p*z", power = -1 }, { arg = "2*p*k + p - p*z", power = -1 },
+]
+[[equation]]
+name = "wrong-crossing"
+product = [ { factor = "minus_S0", at = "i*pi - theta" }, { factor = "minus_S0", at = "theta", power = -1 } ]
+equals = "sinh(pi*(i*pi - theta)/xi) / sinh(pi*theta/xi)"
+[[equation]]
+name = "not-real-analytic"
+product = [ { factor = "e", at = "theta" }, { factor = "e", at = "-theta", conjugate = true, power = -1 } ]
+[[factor]]
+name = "e"
+[[factor.piece]]
+kind = "expression"
+value = "exp(theta)"
+"#;
+    let m = Model::from_toml(text, "wrong.toml").unwrap();
+    let opts = CheckOptions::new(30).unwrap();
+    for eq in m.equations() {
+        let r = check_equation(&m, eq, &opts);
+        assert!(!r.passed, "{}", eq.name);
+        assert!(r.worst.unwrap().0.relative > 1e-3);
+    }
+}
+
+/// The sinh-Gordon S-matrix (Arinshtein, Fateev & Zamolodchikov, Phys.
+/// Lett. B 87 (1979) 389), S(θ) = (sinh θ − i sin(πB/2))/(sinh θ + i sin(πB/2)),
+/// is the CDD block f_{−B/2}: unitary and crossing-symmetric; its poles
+/// θ = −iπB/2 and iπ(1 + B/2) lie outside the physical strip.
+#[test]
+fn sinh_gordon_block_is_unitary_and_crossing_symmetric() {
+    let text = r#"
+[parameters]
+B = 0.6
+[[factor]]
+name = "S"
+[[factor.piece]]
+kind = "cdd"
+blocks = [ { alpha = "-B/2" } ]
+[[factor]]
+name = "closed_form"
+[[factor.piece]]
+kind = "expression"
+value = "(sinh(theta) - i*sin(pi*B/2)) / (sinh(theta) + i*sin(pi*B/2))"
+[[equation]]
+name = "unitarity"
+product = [ { factor = "S", at = "theta" }, { factor = "S", at = "-theta" } ]
+[[equation]]
+name = "crossing"
+product = [ { factor = "S", at = "i*pi - theta" }, { factor = "S", at = "theta", power = -1 } ]
+[[equation]]
+name = "closed-form"
+product = [ { factor = "S", at = "theta" } ]
+equals = "closed_form(theta)"
+"#;
+    let m = Model::from_toml(text, "shg.toml").unwrap();
+    let mut opts = CheckOptions::new(40).unwrap();
+    opts.regions.push(Region::parse("-2:2,-6:6").unwrap());
+    for eq in m.equations() {
+        let r = check_equation(&m, eq, &opts);
+        assert!(r.passed && r.checked >= 14, "{}: {r:?}", eq.name);
+    }
+}
+
+/// The equations declared in the example pass at 40 digits (the crossing
+/// factor there is derived in the file's comments; both sides are
+/// computed independently).
+#[test]
+fn example_equations_pass() {
+    let m = Model::load(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/examples/lantern.toml"
+    ))
+    .unwrap();
+    assert!(m.equations().len() >= 4);
+    let opts = CheckOptions::new(40).unwrap();
+    for eq in m.equations() {
+        let r = check_equation(&m, eq, &opts);
+        assert!(r.passed, "{}: {r:?}", eq.name);
+        // The band above the strip is sampled: the hard region.
+        assert!(r.checked >= 18);
+    }
+    // Homogeneous crossing does not hold for sigma (R ≠ 1).
+    let h = m.equation("crossing").unwrap().homogeneous();
+    assert!(!check_equation(&m, &h, &opts).passed);
+}
+
+#[test]
+fn points_near_poles_are_skipped() {
+    // f_{1/3} has a pole at θ = iπ/3 and a zero at θ = 2iπ/3 (mod 2πi):
+    // a region around the pole loses points to the margin, and none of
+    // the kept points is within the margin.
+    let text = r#"
+[[factor]]
+name = "S"
+[[factor.piece]]
+kind = "cdd"
+blocks = [ { alpha = "1/3" } ]
+[[equation]]
+name = "unitarity"
+product = [ { factor = "S", at = "theta" }, { factor = "S", at = "-theta" } ]
+"#;
+    let m = Model::from_toml(text, "m.toml").unwrap();
+    let mut opts = CheckOptions::new(30).unwrap();
+    opts.default_regions = false;
+    opts.points_per_region = 40;
+    opts.regions
+        .push(Region::parse("-0.05:0.05,1.0:1.1").unwrap());
+    let r = check_equation(&m, &m.equations()[0], &opts);
+    assert!(r.skipped > 0 && r.passed, "{r:?}");
+}
+
+fn err(text: &str) -> String {
+    Model::from_toml(text, "m.toml").unwrap_err().to_string()
+}
+
+#[test]
+fn bad_equations_are_clear_errors() {
+    let head = "[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = 0.1 }]\n[[equation]]\nname = \"u\"\n";
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"T\", at = \"theta\" }}]\n"
+    ));
+    assert!(
+        e.contains("no factor named `T`") && e.contains("m.toml:8:"),
+        "{e}"
+    );
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta^2\" }}]\n"
+    ));
+    assert!(e.contains("affine in theta"), "{e}");
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"1\" }}]\n"
+    ));
+    assert!(e.contains("affine in theta"), "{e}");
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta\" }}]\nequals = \"R(theta)\"\n"
+    ));
+    assert!(e.contains("`R(…)`"), "{e}");
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta\" }}]\nequals = \"q\"\n"
+    ));
+    assert!(e.contains("`q`"), "{e}");
+    let e = err(&format!("{head}product = []\n"));
+    assert!(e.contains("needs `product"), "{e}");
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta\", shift = 1 }}]\n"
+    ));
+    assert!(e.contains("shift"), "{e}");
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta\" }}]\n[[equation]]\nname = \"u\"\nproduct = [{{ factor = \"S\", at = \"theta\" }}]\n"
+    ));
+    assert!(e.contains("unique"), "{e}");
+}

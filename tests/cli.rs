@@ -238,3 +238,39 @@ fn check_passes_on_the_example_and_fails_on_a_wrong_equation() {
     assert_eq!(code, 2);
     assert!(err.contains("unitarity, crossing"), "{err}");
 }
+
+#[test]
+fn cdd_reports_a_verdict_and_fails_when_an_equation_breaks() {
+    let m = example("lantern.toml");
+    let (code, out, _) = dressing(&[
+        "cdd",
+        &m,
+        "--candidate",
+        "block(1/3)",
+        "--digits",
+        "20",
+        "--points",
+        "2",
+    ]);
+    assert_eq!(code, 0, "{out}");
+    assert!(
+        out.contains("θ = iπ·1/3") && out.contains("sign +"),
+        "{out}"
+    );
+    assert!(out.contains("equations kept       3 of 3"), "{out}");
+    let (code, out, _) = dressing(&[
+        "cdd",
+        &m,
+        "--candidate",
+        "exp(theta)",
+        "--points",
+        "2",
+        "--json",
+    ]);
+    assert_eq!(code, 1, "{out}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["equations"][1]["kept"], false);
+    let (code, _, err) = dressing(&["cdd", &m, "--candidate", "1 +"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--candidate"), "{err}");
+}

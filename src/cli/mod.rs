@@ -6,12 +6,14 @@
 //! error a user can cause comes back as a message naming the option and what
 //! to change, with a non-zero exit status.
 
+mod cdd;
 mod check;
 mod demo;
 mod eval;
 mod parse;
 mod special;
 
+pub use cdd::CddArgs;
 pub use check::CheckArgs;
 pub use eval::EvalArgs;
 pub use parse::parse_complex;
@@ -68,6 +70,10 @@ pub enum Command {
     ///
     /// Example: dressing check examples/lantern.toml --digits 40 --region -1:1,4:6
     Check(CheckArgs),
+    /// Test a proposed CDD factor: equations kept, poles added, edge behaviour.
+    ///
+    /// Example: dressing cdd examples/lantern.toml --candidate "block(1/3)" --factor sigma
+    Cdd(CddArgs),
 }
 
 /// The special functions `dressing special` can evaluate.
@@ -124,6 +130,7 @@ pub fn run(cli: Cli) -> Result<Report, String> {
         } => special::special_cmd(function, &at, digits, order, json).map(Into::into),
         Command::Eval(args) => eval::eval_cmd(&args),
         Command::Check(args) => check::check_cmd(&args),
+        Command::Cdd(args) => cdd::cdd_cmd(&args),
     }
 }
 

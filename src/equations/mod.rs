@@ -15,9 +15,11 @@
 //! A pass is numerical evidence at the sampled points and precision, not a
 //! proof.
 
+mod cdd;
 mod check;
 mod sample;
 
+pub use cdd::{analyse_cdd, Added, CddReport};
 pub use check::{check_equation, default_regions, CheckOptions, EquationReport};
 pub use sample::{Region, Sampler};
 

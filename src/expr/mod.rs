@@ -182,7 +182,13 @@ impl Expr {
         }
     }
 
-    fn from_node(node: Node) -> Expr {
+    /// The expression of a syntax tree (its source is the canonical form).
+    ///
+    /// ```
+    /// use dressing::expr::{Expr, Node};
+    /// assert_eq!(Expr::from_node(Node::Pi).to_string(), "pi");
+    /// ```
+    pub fn from_node(node: Node) -> Expr {
         let source = display::show(&node);
         Expr { node, source }
     }

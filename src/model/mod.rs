@@ -132,6 +132,15 @@ impl Model {
         build::build(self.source.clone(), &all)
     }
 
+    /// The same model with `extra` TOML appended (more factors or
+    /// equations); errors point into the combined text.
+    pub(crate) fn with_extra_toml(&self, extra: &str) -> Result<Model> {
+        let mut source = self.source.clone();
+        source.text.push('\n');
+        source.text.push_str(extra);
+        build::build(source, &self.overrides)
+    }
+
     #[allow(clippy::too_many_arguments)]
     pub(crate) fn assemble(
         source: Source,

@@ -174,3 +174,12 @@ fn bad_candidates_are_clear_errors() {
         .to_string();
     assert!(e.contains("no factor named"), "{e}");
 }
+
+#[test]
+fn a_candidate_must_be_a_function_of_theta_alone() {
+    let m = lantern();
+    let e = analyse_cdd(&m, "sigma", "exp(k*theta)", &CheckOptions::new(20).unwrap())
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("`k`"), "{e}");
+}

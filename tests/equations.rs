@@ -238,3 +238,88 @@ fn bad_equations_are_clear_errors() {
     ));
     assert!(e.contains("unique"), "{e}");
 }
+
+/// A Barnes G ratio F(θ) = G(1−x)G(1/2+x)/(G(1+x)G(1/2−x)), x = θ/(2πi):
+/// from G(z+1) = Γ(z)G(z) (DLMF 5.17.1), F(θ)F(−θ) = 1 and
+/// F(θ)F(θ+iπ) = Γ(−x)/Γ(1/2+x). Both at 40 digits.
+#[test]
+fn barnes_ratio_equations_at_40_digits() {
+    let text = r#"
+[rapidity]
+z = "theta/(2*pi*i)"
+base = "0.3"
+[[factor]]
+name = "F"
+[[factor.piece]]
+kind = "barnes"
+gammas = [ { arg = "1 - z" }, { arg = "1/2 + z" }, { arg = "1 + z", power = -1 }, { arg = "1/2 - z", power = -1 } ]
+[[equation]]
+name = "unitarity"
+product = [ { factor = "F", at = "theta" }, { factor = "F", at = "-theta" } ]
+[[equation]]
+name = "shift"
+product = [ { factor = "F", at = "theta" }, { factor = "F", at = "theta + i*pi" } ]
+equals = "gamma(-z) / gamma(1/2 + z)"
+"#;
+    let m = Model::from_toml(text, "barnes.toml").unwrap();
+    let mut opts = CheckOptions::new(40).unwrap();
+    opts.regions.push(Region::parse("-4:4,-9:9").unwrap());
+    for eq in m.equations() {
+        let r = check_equation(&m, eq, &opts);
+        assert!(r.passed && r.checked >= 18, "{}: {r:?}", eq.name);
+        assert!(r.worst.unwrap().0.relative < 1e-38);
+    }
+}
+
+/// Mutation test: the sine-Gordon factor with p perturbed by one part in
+/// 10⁶ while the crossing factor keeps ξ must fail crossing.
+#[test]
+fn a_perturbed_parameter_fails_crossing() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/data/models/sine-gordon.toml"
+    ))
+    .unwrap()
+    .replace("p = \"pi/xi\"", "p = \"pi/xi*(1 + 1e-6)\"");
+    let m = Model::from_toml(&text, "mutant.toml").unwrap();
+    let r = check_equation(
+        &m,
+        m.equation("crossing").unwrap(),
+        &CheckOptions::new(30).unwrap(),
+    );
+    assert!(!r.passed);
+    let w = r.worst.unwrap().0.relative;
+    assert!(w > 1e-9 && w < 1e-2, "{w}");
+    // Unitarity holds for any p: it does not see the mutation.
+    assert!(
+        check_equation(
+            &m,
+            m.equation("unitarity").unwrap(),
+            &CheckOptions::new(30).unwrap()
+        )
+        .passed
+    );
+}
+
+#[test]
+fn a_region_with_no_admissible_points_does_not_pass() {
+    let text = r#"
+[[factor]]
+name = "S"
+[[factor.piece]]
+kind = "cdd"
+blocks = [ { alpha = "1/3" } ]
+[[equation]]
+name = "unitarity"
+product = [ { factor = "S", at = "theta" }, { factor = "S", at = "-theta" } ]
+"#;
+    let m = Model::from_toml(text, "m.toml").unwrap();
+    let mut opts = CheckOptions::new(20).unwrap();
+    opts.default_regions = false;
+    // A box of side 2·10⁻⁴ around the pole at iπ/3.
+    opts.regions
+        .push(Region::parse("-0.0001:0.0001,1.0471:1.0473").unwrap());
+    let r = check_equation(&m, &m.equations()[0], &opts);
+    assert_eq!(r.checked, 0);
+    assert!(!r.passed && r.skipped > 0);
+}

@@ -53,9 +53,21 @@ fn candidate_text(arg: &str) -> Result<String, String> {
 }
 
 fn show(c: Option<Complex64>) -> String {
+    let num = |x: f64| {
+        if x != 0.0 && !(1e-3..1e6).contains(&x.abs()) {
+            format!("{x:.6e}")
+        } else {
+            format!("{x:.6}")
+        }
+    };
     match c {
-        Some(c) if c.im.abs() < 1e-12 * c.norm().max(1e-300) => format!("{:.6}", c.re),
-        Some(c) => format!("{:.6}{:+.6}i", c.re, c.im),
+        Some(c) if c.im.abs() < 1e-12 * c.norm().max(1e-300) => num(c.re),
+        Some(c) => format!(
+            "{}{}{}i",
+            num(c.re),
+            if c.im < 0.0 { "" } else { "+" },
+            num(c.im)
+        ),
         None => "(singular)".into(),
     }
 }

@@ -126,6 +126,13 @@ fn text(
             "  {} points checked ({} skipped near poles or zeros)",
             r.checked, r.skipped
         );
+        if r.checked == 0 {
+            let _ = writeln!(
+                out,
+                "  no admissible point: every sampled point lies within the margin of a pole or \
+                 zero, or could not be evaluated; sample elsewhere with --region"
+            );
+        }
         if r.worst.is_some() {
             let _ = writeln!(
                 out,

@@ -1,0 +1,78 @@
+//! The outputs pasted in docs/guide.md are the program's: every ```text
+//! block that starts with `$ dressing …` is rerun here and compared line
+//! by line, so the guide cannot drift from the program.
+
+use std::process::Command;
+
+/// Splits a command line on spaces, keeping "double-quoted" words whole.
+fn words(line: &str) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut quoted = false;
+    for ch in line.chars() {
+        match ch {
+            '"' => quoted = !quoted,
+            ' ' if !quoted => {
+                if !cur.is_empty() {
+                    out.push(std::mem::take(&mut cur));
+                }
+            }
+            c => cur.push(c),
+        }
+    }
+    if !cur.is_empty() {
+        out.push(cur);
+    }
+    out
+}
+
+/// (command, expected output) for every runnable block of a markdown file.
+pub fn blocks(text: &str) -> Vec<(String, String)> {
+    let mut out = Vec::new();
+    let mut lines = text.lines();
+    while let Some(l) = lines.next() {
+        if l.trim() != "```text" {
+            continue;
+        }
+        let mut body: Vec<&str> = Vec::new();
+        for b in lines.by_ref() {
+            if b.trim() == "```" {
+                break;
+            }
+            body.push(b);
+        }
+        if let Some(cmd) = body.first().and_then(|f| f.strip_prefix("$ dressing ")) {
+            out.push((cmd.to_string(), body[1..].join("\n")));
+        }
+    }
+    out
+}
+
+#[test]
+fn guide_outputs_match_the_program() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let text = std::fs::read_to_string(format!("{root}/docs/guide.md")).unwrap();
+    let runs = blocks(&text);
+    assert!(runs.len() >= 4, "{}", runs.len());
+    for (cmd, want) in runs {
+        let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
+            .args(words(&cmd))
+            .current_dir(root)
+            .output()
+            .unwrap();
+        let got = String::from_utf8_lossy(&out.stdout);
+        let (got, want) = (got.trim_end(), want.trim_end());
+        if got != want {
+            let first = got
+                .lines()
+                .zip(want.lines())
+                .position(|(a, b)| a != b)
+                .unwrap_or(0);
+            panic!(
+                "`dressing {cmd}` no longer prints what docs/guide.md shows (first difference at \
+                 line {}):\n--- program ---\n{got}\n--- guide ---\n{want}",
+                first + 1
+            );
+        }
+    }
+}

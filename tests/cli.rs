@@ -274,3 +274,24 @@ fn cdd_reports_a_verdict_and_fails_when_an_equation_breaks() {
     assert_eq!(code, 2);
     assert!(err.contains("--candidate"), "{err}");
 }
+
+#[test]
+fn poles_table_and_json() {
+    let m = example("lantern.toml");
+    let (code, out, _) = dressing(&[
+        "poles", &m, "--factor", "dressed", "--window", "0:1", "--masses", "1,1",
+    ]);
+    assert_eq!(code, 0, "{out}");
+    // The CDD block f_{g/2}, g = 7/20, adds a pole at u/π = 7/40.
+    assert!(out.contains("7/40  pole"), "{out}");
+    let (code, out, _) = dressing(&["poles", &m, "--json", "--digits", "20"]);
+    assert_eq!(code, 0);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert!(!v["points"].as_array().unwrap().is_empty());
+    let (code, _, err) = dressing(&["poles", &m, "--window", "1:0"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("inverted"), "{err}");
+    let (code, _, err) = dressing(&["poles", &m, "--masses", "1"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--masses"), "{err}");
+}

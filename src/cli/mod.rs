@@ -11,12 +11,14 @@ mod check;
 mod demo;
 mod eval;
 mod parse;
+mod poles;
 mod special;
 
 pub use cdd::CddArgs;
 pub use check::CheckArgs;
 pub use eval::EvalArgs;
 pub use parse::parse_complex;
+pub use poles::PolesArgs;
 
 use crate::num::ComplexField;
 use clap::{Parser, Subcommand, ValueEnum};
@@ -74,6 +76,10 @@ pub enum Command {
     ///
     /// Example: dressing cdd examples/lantern.toml --candidate "block(1/3)" --factor sigma
     Cdd(CddArgs),
+    /// Poles and zeros of a factor: orders, residues, bound-state readings.
+    ///
+    /// Example: dressing poles examples/lantern.toml --factor dressed --window 0:1 --masses 1,1
+    Poles(PolesArgs),
 }
 
 /// The special functions `dressing special` can evaluate.
@@ -131,6 +137,7 @@ pub fn run(cli: Cli) -> Result<Report, String> {
         Command::Eval(args) => eval::eval_cmd(&args),
         Command::Check(args) => check::check_cmd(&args),
         Command::Cdd(args) => cdd::cdd_cmd(&args),
+        Command::Poles(args) => poles::poles_cmd(&args),
     }
 }
 

@@ -9,6 +9,8 @@ use crate::error::{Error, Result};
 use crate::expr::{Expr, Node};
 use crate::factor::Method;
 use crate::model::Model;
+use crate::poles::contour::{laurent_coefficient, winding};
+use crate::poles::scan_axis;
 use crate::precision::Prec;
 use num_complex::Complex64;
 use rug::Rational;
@@ -149,68 +151,6 @@ fn block_points(alpha: &Rational) -> Vec<(Rational, i64)> {
     out
 }
 
-/// The winding number of `f` around a circle of radius r about θ₀
-/// (poles count +1, zeros −1), and the trapezoidal-rule `(1/2πi)∮ f dθ`.
-fn circle(
-    f: &dyn Fn(Complex64) -> Option<Complex64>,
-    c: Complex64,
-    r: f64,
-) -> Option<(i64, Complex64)> {
-    let n = 128;
-    let mut phase = 0.0;
-    let mut prev: Option<Complex64> = None;
-    let mut res = Complex64::new(0.0, 0.0);
-    let mut first = None;
-    for j in 0..=n {
-        let e = Complex64::from_polar(1.0, 2.0 * PI * j as f64 / n as f64);
-        let v = f(c + e * r)?;
-        if j < n {
-            res += v * e * r / n as f64;
-        }
-        let a = v.arg();
-        if let Some(p) = prev {
-            let mut d = a - p.arg();
-            d -= 2.0 * PI * (d / (2.0 * PI)).round();
-            phase += d;
-        }
-        first.get_or_insert(a);
-        prev = Some(v);
-    }
-    Some((-(phase / (2.0 * PI)).round() as i64, res))
-}
-
-/// The order (poles +) of the singular point inside the circle |θ − c| = r,
-/// and its position `(1/2πi w)∮ θ d log f` (trapezoidal rule on the
-/// unwrapped logarithm; exact for one singular point of order w inside).
-fn locate(
-    log_f: &dyn Fn(Complex64) -> Option<Complex64>,
-    c: Complex64,
-    r: f64,
-) -> Option<(i64, Complex64)> {
-    let n = 256;
-    let pts: Vec<(Complex64, Complex64)> = (0..=n)
-        .map(|j| {
-            let t = c + Complex64::from_polar(r, 2.0 * PI * j as f64 / n as f64);
-            log_f(t).map(|l| (t, l))
-        })
-        .collect::<Option<_>>()?;
-    let mut turn = 0.0;
-    let mut moment = Complex64::new(0.0, 0.0);
-    for w in pts.windows(2) {
-        let mut d = w[1].1 - w[0].1;
-        d.im -= 2.0 * PI * (d.im / (2.0 * PI)).round();
-        turn += d.im;
-        moment += 0.5 * (w[0].0 + w[1].0) * d;
-    }
-    let wind = (turn / (2.0 * PI)).round() as i64;
-    if wind == 0 {
-        return Some((0, c));
-    }
-    // d log f winds −2πi per pole: order = −wind.
-    let at = moment / Complex64::new(0.0, 2.0 * PI * wind as f64);
-    Some((-wind, at))
-}
-
 /// Tests `candidate` (an expression in θ and the parameters; `block(α)`
 /// is the standard block f_α) as a CDD factor on `target`.
 ///
@@ -323,50 +263,23 @@ pub fn analyse_cdd(
         points.retain(|p| p.2 != 0);
     } else {
         located_by = "scan of the imaginary axis (argument principle on small circles)";
-        // Candidates: sharp extrema of log|c| on a grid of u in (0, π).
-        let n = 600;
-        let lm: Vec<Option<f64>> = (1..n)
-            .map(|j| log_c(Complex64::new(0.0, PI * j as f64 / n as f64)).map(|l| l.re))
+        points = scan_axis(&log_c, (0.0, 1.0))
+            .into_iter()
+            .map(|(u, o)| (u, None, o))
             .collect();
-        for j in 1..lm.len() - 1 {
-            let (Some(a), Some(b), Some(c)) = (lm[j - 1], lm[j], lm[j + 1]) else {
-                let u = PI * (j + 1) as f64 / n as f64;
-                if lm[j].is_none() {
-                    points.push((u / PI, None, 0));
-                }
-                continue;
-            };
-            if (b > a && b > c && b > 3.0) || (b < a && b < c && b < -3.0) {
-                points.push(((j + 1) as f64 / n as f64, None, 0));
-            }
-        }
-        let mut confirmed: Vec<(f64, Option<Rational>, i64)> = Vec::new();
-        let r = 2.0 * PI / n as f64;
-        for (u, _, _) in points {
-            let c0 = Complex64::new(0.0, PI * u);
-            if let Some((w, at)) = locate(&log_c, c0, r) {
-                let u = at.im / PI;
-                if w != 0 && u > 0.0 && u < 1.0 && !confirmed.iter().any(|p| (p.0 - u).abs() < 1e-9)
-                {
-                    confirmed.push((u, None, w));
-                }
-            }
-        }
-        points = confirmed;
     }
     let mut added = Vec::new();
     for (u, exact, order) in points {
         let c0 = Complex64::new(0.0, PI * u);
         let r = 1e-3;
-        let (dressed_order, neg_i_residue) = match circle(&dressed, c0, r) {
-            Some((w, res)) => {
-                let res2 = circle(&dressed, c0, r / 2.0).map(|x| x.1);
-                let err = res2.map(|r2| (r2 - res).norm()).unwrap_or(f64::NAN);
-                let neg_i = Complex64::new(0.0, -1.0) * res;
-                (w, (w == 1).then_some((neg_i, err)))
-            }
-            None => (order, None),
-        };
+        let log_dressed = |t: Complex64| dressed(t).map(|v| v.ln());
+        let dressed_order = winding(&log_dressed, c0, r, 256)
+            .map(|w| w.0)
+            .unwrap_or(order);
+        let neg_i_residue = (dressed_order == 1)
+            .then(|| laurent_coefficient::<Complex64>(&|t: &Complex64| dressed(*t), &c0, r, 1, 128))
+            .flatten()
+            .map(|(res, err)| (Complex64::new(0.0, -1.0) * res, err));
         added.push(Added {
             u_over_pi: u,
             exact,

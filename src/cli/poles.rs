@@ -1,0 +1,228 @@
+//! `dressing poles`: the table of poles and zeros of a factor.
+
+use super::Report;
+use crate::poles::{analyse, Axis, PointReport, PoleOptions, Singular};
+use crate::precision::Prec;
+use clap::Args;
+use std::fmt::Write as _;
+
+/// Arguments of `dressing poles`.
+#[derive(Args, Debug, Clone)]
+pub struct PolesArgs {
+    /// The model file.
+    pub model: String,
+    /// Which factor (default: the first).
+    #[arg(long)]
+    pub factor: Option<String>,
+    /// The window FROM:TO in u/π on the imaginary axis θ = iu (in θ when z = theta).
+    #[arg(long, allow_hyphen_values = true, default_value = "-0.5:1.5")]
+    pub window: String,
+    /// Masses m1,m2 of the scattering particles, for bound-state masses.
+    #[arg(long)]
+    pub masses: Option<String>,
+    /// Decimal digits of the residues (12 or fewer: double precision).
+    #[arg(long, default_value_t = 12)]
+    pub digits: u64,
+    /// Redefine a parameter, NAME=EXPR (repeatable).
+    #[arg(long = "set", allow_hyphen_values = true)]
+    pub set: Vec<String>,
+    /// Print JSON.
+    #[arg(long)]
+    pub json: bool,
+}
+
+fn pair(text: &str, sep: char, what: &str, example: &str) -> Result<(f64, f64), String> {
+    let bad = || format!("{what} {text}: write two numbers separated by `{sep}`, e.g. {example}");
+    let (a, b) = text.split_once(sep).ok_or_else(bad)?;
+    let a: f64 = a.trim().parse().map_err(|_| bad())?;
+    let b: f64 = b.trim().parse().map_err(|_| bad())?;
+    Ok((a, b))
+}
+
+pub(crate) fn poles_cmd(args: &PolesArgs) -> Result<Report, String> {
+    let model = super::eval::load_model(&args.model, &args.set)?;
+    let factor = match &args.factor {
+        Some(f) => {
+            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
+            f.clone()
+        }
+        None => model.factors()[0].name().to_string(),
+    };
+    let window = pair(&args.window, ':', "--window", "--window 0:1")?;
+    let masses = match &args.masses {
+        Some(m) => Some(pair(m, ',', "--masses", "--masses 1,1")?),
+        None => None,
+    };
+    let prec = if args.digits <= 12 {
+        Prec::DOUBLE
+    } else {
+        Prec::digits(args.digits).map_err(|e| format!("--digits {}: {e}", args.digits))?
+    };
+    let opts = PoleOptions {
+        window,
+        prec,
+        masses,
+    };
+    let (points, cancelled) =
+        analyse(&model, &factor, &opts).map_err(|e| format!("--window {}: {e}", args.window))?;
+    let mismatch = points
+        .iter()
+        .any(|p| p.numerical_order.is_some_and(|o| o != p.point.order));
+    let stdout = if args.json {
+        json(&factor, args, &points, &cancelled)
+    } else {
+        text(&model, &factor, args, &points, &cancelled)
+    };
+    Ok(Report {
+        stdout,
+        failed: mismatch,
+    })
+}
+
+fn kind(p: &Singular) -> &'static str {
+    if p.order > 0 {
+        "pole"
+    } else {
+        "zero"
+    }
+}
+
+fn text(
+    model: &crate::model::Model,
+    factor: &str,
+    args: &PolesArgs,
+    points: &[PointReport],
+    cancelled: &[Singular],
+) -> String {
+    let mut out = String::new();
+    let axis = points
+        .first()
+        .map(|p| p.point.axis)
+        .unwrap_or(Axis::Imaginary);
+    let coord = match axis {
+        Axis::Imaginary => "u/π",
+        Axis::Real => "θ",
+    };
+    let _ = writeln!(
+        out,
+        "poles and zeros of `{factor}` ({}) with {coord} in [{}]{}",
+        model.file(),
+        args.window,
+        if axis == Axis::Imaginary {
+            ", on the imaginary axis θ = iu"
+        } else {
+            ", on the real axis"
+        }
+    );
+    let _ = writeln!(
+        out,
+        "\n{:>14}  {:<5} {:>5} {:>8}  {:>22} {:>8}  {:<6} {:<5} {}",
+        coord,
+        "kind",
+        "order",
+        "checked",
+        "residue / leading c.",
+        "± error",
+        "strip",
+        "−i·Res",
+        if args.masses.is_some() { "m_b" } else { "" }
+    );
+    for p in points {
+        let checked = match p.numerical_order {
+            Some(o) if o == p.point.order => "yes".to_string(),
+            Some(o) => format!("no ({o})"),
+            None => "-".into(),
+        };
+        let (lead, err) = match p.leading {
+            Some((c, e)) => {
+                if c.im.abs() < 1e-12 * c.norm() {
+                    (format!("{:.10e}", c.re), format!("{e:.0e}"))
+                } else if c.re.abs() < 1e-12 * c.norm() {
+                    (format!("{:.10e}i", c.im), format!("{e:.0e}"))
+                } else {
+                    (format!("{:.4e}{:+.4e}i", c.re, c.im), format!("{e:.0e}"))
+                }
+            }
+            None => ("-".into(), "-".into()),
+        };
+        let sign = match p.neg_i_residue {
+            Some(r) if r > 0.0 => "+",
+            Some(_) => "−",
+            None => "",
+        };
+        let mass = p.mass.map(|m| format!("{m:.10}")).unwrap_or_default();
+        let _ = writeln!(
+            out,
+            "{:>14}  {:<5} {:>5} {:>8}  {:>22} {:>8}  {:<6} {:<5} {}",
+            p.point.coordinate_text(),
+            kind(&p.point),
+            p.point.order.abs(),
+            checked,
+            lead,
+            err,
+            if p.in_strip { "yes" } else { "no" },
+            sign,
+            mass
+        );
+    }
+    if points.is_empty() {
+        let _ = writeln!(out, "{:>14}  (none in the window)", "");
+    }
+    if !cancelled.is_empty() {
+        let _ = writeln!(
+            out,
+            "\ncancelled (the pieces' orders add up to 0, no pole or zero there):"
+        );
+        for c in cancelled {
+            let parts: Vec<String> = c
+                .contributions
+                .iter()
+                .map(|(l, o)| format!("{l} {o:+}"))
+                .collect();
+            let _ = writeln!(
+                out,
+                "  {coord} = {}: {}",
+                c.coordinate_text(),
+                parts.join(", ")
+            );
+        }
+    }
+    let _ = writeln!(
+        out,
+        "\norders: enumerated from the pieces, checked by the argument principle on a small circle; \
+         residues by the trapezoidal rule on that circle."
+    );
+    out
+}
+
+fn json(factor: &str, args: &PolesArgs, points: &[PointReport], cancelled: &[Singular]) -> String {
+    let pts: Vec<serde_json::Value> = points
+        .iter()
+        .map(|p| {
+            serde_json::json!({
+                "axis": format!("{:?}", p.point.axis).to_lowercase(),
+                "coordinate": p.point.coordinate,
+                "exact": p.point.exact.as_ref().map(|q| q.to_string()),
+                "kind": kind(&p.point),
+                "order": p.point.order.abs(),
+                "numerical_order": p.numerical_order.map(|o| o.abs()),
+                "leading_coefficient": p.leading.map(|(c, e)| serde_json::json!({"re": c.re, "im": c.im, "error": e})),
+                "in_physical_strip": p.in_strip,
+                "neg_i_residue": p.neg_i_residue,
+                "bound_state_mass": p.mass,
+                "contributions": p.point.contributions.iter().map(|(l, o)| serde_json::json!({"piece": l, "order": o})).collect::<Vec<_>>(),
+            })
+        })
+        .collect();
+    let canc: Vec<serde_json::Value> = cancelled
+        .iter()
+        .map(|c| serde_json::json!({"coordinate": c.coordinate, "exact": c.exact.as_ref().map(|q| q.to_string())}))
+        .collect();
+    let doc = serde_json::json!({
+        "factor": factor,
+        "window": args.window,
+        "points": pts,
+        "cancelled": canc,
+    });
+    serde_json::to_string_pretty(&doc).unwrap_or_default() + "\n"
+}

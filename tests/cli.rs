@@ -295,3 +295,21 @@ fn poles_table_and_json() {
     assert_eq!(code, 2);
     assert!(err.contains("--masses"), "{err}");
 }
+
+#[test]
+fn poles_scan_and_region() {
+    let sg = format!(
+        "{}/tests/data/models/sine-gordon.toml",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let (code, out, _) = dressing(&["poles", &sg, "--scan", "xi=0.5:2.5:5"]);
+    assert_eq!(code, 0, "{out}");
+    assert!(out.contains("left the strip"), "{out}");
+    let (code, _, err) = dressing(&["poles", &sg, "--scan", "xi=0.5:2.5"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("NAME=FROM:TO:STEPS"), "{err}");
+    let m = example("lantern.toml");
+    let (code, out, _) = dressing(&["poles", &m, "--region=-1:1,0.1:3"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("zeros − poles ="), "{out}");
+}

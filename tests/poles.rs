@@ -227,3 +227,33 @@ fn bad_windows_and_masses() {
         .to_string();
     assert!(e.contains("narrower"), "{e}");
 }
+
+/// Enumeration against the argument principle on a rectangle: zeros minus
+/// poles inside must agree (two independent methods).
+#[test]
+fn rectangle_count_matches_enumeration() {
+    let m = Model::load(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/examples/lantern.toml"
+    ))
+    .unwrap();
+    let pi = std::f64::consts::PI;
+    for (factor, lo, hi) in [
+        ("sigma", 0.05, 0.95),
+        ("dressed", 0.05, 0.95),
+        ("dressed", -0.45, 1.4),
+    ] {
+        let (pts, _) = analyse(&m, factor, &opts(lo, hi, 12)).unwrap();
+        let enumerated: i64 = pts.iter().map(|p| -p.point.order).sum();
+        let counted =
+            dressing::poles::count_in_rectangle(&m, factor, (-0.7, 0.7), (lo * pi, hi * pi))
+                .unwrap();
+        assert_eq!(counted, enumerated, "{factor} [{lo}, {hi}]");
+    }
+    // A boundary through the pole at u/π = 7/20 is refused.
+    let y = 0.35 * pi;
+    let e = dressing::poles::count_in_rectangle(&m, "sigma", (-0.5, 0.5), (y, 2.0))
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("move the rectangle"), "{e}");
+}

@@ -23,6 +23,12 @@ pub struct PolesArgs {
     /// Decimal digits of the residues (12 or fewer: double precision).
     #[arg(long, default_value_t = 12)]
     pub digits: u64,
+    /// Count zeros minus poles in a rectangle RE0:RE1,IM0:IM1 by the argument principle (repeatable).
+    #[arg(long = "region", allow_hyphen_values = true)]
+    pub regions: Vec<String>,
+    /// Track the poles in the physical strip as a parameter moves: NAME=FROM:TO:STEPS.
+    #[arg(long, allow_hyphen_values = true)]
+    pub scan: Option<String>,
     /// Redefine a parameter, NAME=EXPR (repeatable).
     #[arg(long = "set", allow_hyphen_values = true)]
     pub set: Vec<String>,
@@ -63,16 +69,35 @@ pub(crate) fn poles_cmd(args: &PolesArgs) -> Result<Report, String> {
         prec,
         masses,
     };
+    if let Some(scan) = &args.scan {
+        return scan_cmd(&model, &factor, scan, &opts);
+    }
     let (points, cancelled) =
         analyse(&model, &factor, &opts).map_err(|e| format!("--window {}: {e}", args.window))?;
+    let mut counts = Vec::new();
+    for r in &args.regions {
+        let reg = crate::equations::Region::parse(r).map_err(|e| format!("--region {r}: {e}"))?;
+        let n = crate::poles::count_in_rectangle(&model, &factor, reg.re, reg.im)
+            .map_err(|e| format!("--region {r}: {e}"))?;
+        counts.push((r.clone(), n));
+    }
     let mismatch = points
         .iter()
         .any(|p| p.numerical_order.is_some_and(|o| o != p.point.order));
-    let stdout = if args.json {
+    let mut stdout = if args.json {
         json(&factor, args, &points, &cancelled)
     } else {
         text(&model, &factor, args, &points, &cancelled)
     };
+    if !counts.is_empty() && !args.json {
+        stdout.push('\n');
+        for (r, n) in &counts {
+            let _ = writeln!(
+                stdout,
+                "rectangle {r}: zeros − poles = {n} (argument principle along its boundary)"
+            );
+        }
+    }
     Ok(Report {
         stdout,
         failed: mismatch,
@@ -225,4 +250,103 @@ fn json(factor: &str, args: &PolesArgs, points: &[PointReport], cancelled: &[Sin
         "cancelled": canc,
     });
     serde_json::to_string_pretty(&doc).unwrap_or_default() + "\n"
+}
+
+/// `--scan NAME=FROM:TO:STEPS`: the strip's poles at each value, with the
+/// events between consecutive values.
+fn scan_cmd(
+    model: &crate::model::Model,
+    factor: &str,
+    scan: &str,
+    opts: &PoleOptions,
+) -> Result<Report, String> {
+    let bad = || format!("--scan {scan}: write NAME=FROM:TO:STEPS, e.g. --scan g=0.1:0.9:9");
+    let (name, range) = scan.split_once('=').ok_or_else(bad)?;
+    let parts: Vec<&str> = range.split(':').collect();
+    if parts.len() != 3 {
+        return Err(bad());
+    }
+    let from: f64 = parts[0].trim().parse().map_err(|_| bad())?;
+    let to: f64 = parts[1].trim().parse().map_err(|_| bad())?;
+    let steps: usize = parts[2].trim().parse().map_err(|_| bad())?;
+    if !(from.is_finite() && to.is_finite()) || !(2..=10_000).contains(&steps) {
+        return Err(bad());
+    }
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "poles of `{factor}` in the physical strip as {name} goes from {from} to {to} ({steps} values); u/π per value"
+    );
+    let mut prev: Option<(f64, Vec<f64>)> = None;
+    let mut opts = opts.clone();
+    opts.window = (0.0, 1.0);
+    for j in 0..steps {
+        let v = from + (to - from) * j as f64 / (steps - 1) as f64;
+        let m = model
+            .with_parameters(&[(name.to_string(), format!("{v}"))])
+            .map_err(|e| format!("--scan {scan}: {e}"))?;
+        let (points, cancelled) = match analyse(&m, factor, &opts) {
+            Ok(r) => r,
+            Err(e) => {
+                let _ = writeln!(out, "  {name} = {v:<10.6} not computed: {e}");
+                continue;
+            }
+        };
+        let poles: Vec<f64> = points
+            .iter()
+            .filter(|p| p.point.order > 0 && p.in_strip)
+            .map(|p| p.point.coordinate)
+            .collect();
+        let list: Vec<String> = points
+            .iter()
+            .filter(|p| p.point.order > 0 && p.in_strip)
+            .map(|p| {
+                let s = match p.neg_i_residue {
+                    Some(r) if r > 0.0 => "+",
+                    Some(_) => "−",
+                    None => "",
+                };
+                format!("{:.6}{s}", p.point.coordinate)
+            })
+            .collect();
+        let _ = writeln!(
+            out,
+            "  {name} = {v:<10.6} {}",
+            if list.is_empty() {
+                "(none)".into()
+            } else {
+                list.join("  ")
+            }
+        );
+        for c in cancelled
+            .iter()
+            .filter(|c| c.coordinate > 0.0 && c.coordinate < 1.0)
+        {
+            let _ = writeln!(
+                out,
+                "      a pole and a zero collide at u/π = {} ({name} = {v})",
+                c.coordinate_text()
+            );
+        }
+        if let Some((pv, pp)) = &prev {
+            if poles.len() > pp.len() {
+                let _ = writeln!(
+                    out,
+                    "      {} pole(s) entered the strip between {name} = {pv} and {v}",
+                    poles.len() - pp.len()
+                );
+            } else if poles.len() < pp.len() {
+                let _ = writeln!(
+                    out,
+                    "      {} pole(s) left the strip between {name} = {pv} and {v}",
+                    pp.len() - poles.len()
+                );
+            }
+        }
+        prev = Some((v, poles));
+    }
+    Ok(Report {
+        stdout: out,
+        failed: false,
+    })
 }

@@ -61,7 +61,7 @@ pub(crate) fn continue_phase(
     }
 }
 
-fn straight(
+pub(crate) fn straight(
     eval: &(dyn Fn(Complex64) -> Result<Complex64> + Sync),
     from: Complex64,
     im_from: f64,

@@ -21,7 +21,7 @@
 //! assert!(v.log.value.real().to_f64().abs() < 1e-29);
 //! ```
 
-mod branch;
+pub(crate) mod branch;
 mod build;
 mod factor;
 mod params;

@@ -277,3 +277,63 @@ pub fn scan_axis(
     }
     out
 }
+
+/// Zeros minus poles (with multiplicity) of a factor inside the rectangle
+/// `re.0 < Re θ < re.1`, `im.0 < Im θ < im.1`, by the argument principle:
+/// the change of `Im log S` around the boundary, continued at double
+/// precision as in [`Model::evaluate`]. A pole or zero on (or within about
+/// 2⁻⁴⁰ of) the boundary is an error asking to move the rectangle.
+///
+/// ```
+/// use dressing::model::Model;
+/// let m = Model::from_toml("[[factor]]\nname = \"f\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = \"1/3\" }]\n", "m.toml").unwrap();
+/// // Two poles (iπ/3, 2iπ/3) in the physical strip, no zeros.
+/// assert_eq!(dressing::poles::count_in_rectangle(&m, "f", (-1.0, 1.0), (0.1, 3.0)).unwrap(), -2);
+/// ```
+pub fn count_in_rectangle(
+    model: &Model,
+    factor: &str,
+    re: (f64, f64),
+    im: (f64, f64),
+) -> Result<i64> {
+    if !(re.0 < re.1 && im.0 < im.1) || ![re.0, re.1, im.0, im.1].iter().all(|v| v.is_finite()) {
+        return Err(Error::Domain {
+            function: "poles",
+            message: "the rectangle is empty, inverted or not finite; give RE0:RE1,IM0:IM1 with \
+                      RE0 < RE1 and IM0 < IM1"
+                .into(),
+        });
+    }
+    let f = model.factor(factor)?;
+    let eval = |t: Complex64| {
+        f.log_sum::<Complex64>(&t, Prec::DOUBLE, Method::Auto)
+            .map(|s| s.log.value)
+    };
+    let corners = [
+        Complex64::new(re.0, im.0),
+        Complex64::new(re.1, im.0),
+        Complex64::new(re.1, im.1),
+        Complex64::new(re.0, im.1),
+    ];
+    let mut phase = eval(corners[0])
+        .map_err(|e| boundary_error(corners[0], e))?
+        .im;
+    let start = phase;
+    for k in 0..4 {
+        let (a, b) = (corners[k], corners[(k + 1) % 4]);
+        phase =
+            crate::model::branch::straight(&eval, a, phase, b).map_err(|e| boundary_error(a, e))?;
+    }
+    Ok(((phase - start) / (2.0 * PI)).round() as i64)
+}
+
+fn boundary_error(at: Complex64, e: Error) -> Error {
+    Error::Domain {
+        function: "poles",
+        message: format!(
+            "the rectangle's boundary passes through or very near a pole or zero (edge from \
+             θ = {}{:+}i; {e}); move the rectangle",
+            at.re, at.im
+        ),
+    }
+}

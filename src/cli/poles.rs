@@ -269,7 +269,7 @@ fn scan_cmd(
     let from: f64 = parts[0].trim().parse().map_err(|_| bad())?;
     let to: f64 = parts[1].trim().parse().map_err(|_| bad())?;
     let steps: usize = parts[2].trim().parse().map_err(|_| bad())?;
-    if !(from.is_finite() && to.is_finite()) || !(2..=10_000).contains(&steps) {
+    if !(from.is_finite() && to.is_finite() && (2..=10_000).contains(&steps)) {
         return Err(bad());
     }
     let mut out = String::new();

@@ -296,7 +296,7 @@ pub fn count_in_rectangle(
     re: (f64, f64),
     im: (f64, f64),
 ) -> Result<i64> {
-    if !(re.0 < re.1 && im.0 < im.1) || ![re.0, re.1, im.0, im.1].iter().all(|v| v.is_finite()) {
+    if !(re.0 < re.1 && im.0 < im.1 && [re.0, re.1, im.0, im.1].iter().all(|v| v.is_finite())) {
         return Err(Error::Domain {
             function: "poles",
             message: "the rectangle is empty, inverted or not finite; give RE0:RE1,IM0:IM1 with \

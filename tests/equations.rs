@@ -6,36 +6,20 @@ use dressing::model::Model;
 use dressing::Prec;
 use rug::Complex;
 
-/// The sine-Gordon soliton–soliton factor −S₀ as a model file, with
-/// unitarity and crossing S₀(iπ−θ) = [sinh(πθ/ξ)/sinh(π(iπ−θ)/ξ)] S₀(θ)
-/// (Zamolodchikov & Zamolodchikov, Ann. Phys. 120 (1979) 253; the crossing
-/// factor is written from memory and the numbers decide).
+/// The sine-Gordon soliton–soliton factor −S₀ with unitarity, crossing
+/// and real analyticity (tests/data/models/sine-gordon.toml, which names
+/// its source), at coupling `xi` (an expression).
+fn sine_gordon_text(xi: &str) -> String {
+    std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/data/models/sine-gordon.toml"
+    ))
+    .unwrap()
+    .replace("xi = \"2*pi/7\"", &format!("xi = \"{xi}\""))
+}
+
 fn sine_gordon(xi: &str) -> Model {
-    let text = format!(
-        r#"
-[parameters]
-xi = "{xi}"
-p = "pi/xi"
-[[factor]]
-name = "minus_S0"
-[[factor.piece]]
-kind = "gamma-product"
-gammas = [
-  {{ arg = "2*p*k + 1 - p*z" }}, {{ arg = "2*p*k + 2*p - p*z" }},
-  {{ arg = "2*p*k + 1 + p + p*z" }}, {{ arg = "2*p*k + p + p*z" }},
-  {{ arg = "2*p*k + 1 + p*z", power = -1 }}, {{ arg = "2*p*k + 2*p + p*z", power = -1 }},
-  {{ arg = "2*p*k + 1 + p - p*z", power = -1 }}, {{ arg = "2*p*k + p - p*z", power = -1 }},
-]
-[[equation]]
-name = "unitarity"
-product = [ {{ factor = "minus_S0", at = "theta" }}, {{ factor = "minus_S0", at = "-theta" }} ]
-[[equation]]
-name = "crossing"
-product = [ {{ factor = "minus_S0", at = "i*pi - theta" }}, {{ factor = "minus_S0", at = "theta", power = -1 }} ]
-equals = "sinh(pi*theta/xi) / sinh(pi*(i*pi - theta)/xi)"
-"#
-    );
-    Model::from_toml(&text, "sine-gordon.toml").unwrap()
+    Model::from_toml(&sine_gordon_text(xi), "sine-gordon.toml").unwrap()
 }
 
 /// Crossing at points where θ lies in the integral's strip |Im θ| < ξ and
@@ -74,20 +58,10 @@ fn sine_gordon_unitarity_and_crossing_to_50_digits() {
 /// check can fail.
 #[test]
 fn a_wrong_right_hand_side_fails() {
-    let text = r#"
-[parameters]
-xi = "2*pi/7"
-p = "pi/xi"
-[[factor]]
-name = "minus_S0"
-[[factor.piece]]
-kind = "gamma-product"
-gammas = [
-  { arg = "2*p*k + 1 - p*z" }, { arg = "2*p*k + 2*p - p*z" },
-  { arg = "2*p*k + 1 + p + p*z" }, { arg = "2*p*k + p + p*z" },
-  { arg = "2*p*k + 1 + p*z", power = -1 }, { arg = "2*p*k + 2*p + p*z", power = -1 },
-  { arg = "2*p*k + 1 + p - p*z", power = -1 }, { arg = "2*p*k + p - p*z", power = -1 },
-]
+    // The published factor with two wrong equations added.
+    let text = sine_gordon_text("2*pi/7").replace("[[equation]]", "[[ignored]]");
+    let text = text[..text.find("[[ignored]]").unwrap()].to_string()
+        + r#"
 [[equation]]
 name = "wrong-crossing"
 product = [ { factor = "minus_S0", at = "i*pi - theta" }, { factor = "minus_S0", at = "theta", power = -1 } ]
@@ -101,7 +75,7 @@ name = "e"
 kind = "expression"
 value = "exp(theta)"
 "#;
-    let m = Model::from_toml(text, "wrong.toml").unwrap();
+    let m = Model::from_toml(&text, "wrong.toml").unwrap();
     let opts = CheckOptions::new(30).unwrap();
     for eq in m.equations() {
         let r = check_equation(&m, eq, &opts);
@@ -275,12 +249,7 @@ equals = "gamma(-z) / gamma(1/2 + z)"
 /// 10⁶ while the crossing factor keeps ξ must fail crossing.
 #[test]
 fn a_perturbed_parameter_fails_crossing() {
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/models/sine-gordon.toml"
-    ))
-    .unwrap()
-    .replace("p = \"pi/xi\"", "p = \"pi/xi*(1 + 1e-6)\"");
+    let text = sine_gordon_text("2*pi/7").replace("p = \"pi/xi\"", "p = \"pi/xi*(1 + 1e-6)\"");
     let m = Model::from_toml(&text, "mutant.toml").unwrap();
     let r = check_equation(
         &m,

@@ -90,6 +90,14 @@ fn coef(c: &Coef) -> (f64, Option<Rational>) {
     (c.value(64).to_f64(), c.exact().cloned())
 }
 
+/// (step, offset, slope) as (value, exact) pairs, and the power.
+type GammaCoefs = (
+    (f64, Option<Rational>),
+    (f64, Option<Rational>),
+    (f64, Option<Rational>),
+    i64,
+);
+
 /// Points of `Γ(a k + b + s z)^n` (with `barnes`: of `G(…)^n`, zeros of
 /// order m + 1 at w = −m) whose z lies in [zlo, zhi].
 #[allow(clippy::too_many_arguments)]
@@ -202,55 +210,48 @@ pub fn enumerate(
     for (i, piece) in factor.pieces().iter().enumerate() {
         let label = format!("piece {} ({})", i + 1, piece.kind());
         let mut pts = Vec::new();
+        // (step, offset, slope, power) of every gamma or G of the piece, and
+        // whether its arguments run over k (infinite) and whether it is G.
+        let zero = || (0.0, Some(Rational::new()));
+        let gammas: Option<(Vec<GammaCoefs>, bool, bool)> = match piece {
+            Piece::Product(g) => Some((
+                g.terms()
+                    .iter()
+                    .map(|t| (coef(&t.step), coef(&t.offset), coef(&t.slope), t.power))
+                    .collect(),
+                true,
+                false,
+            )),
+            Piece::Gamma(g) => Some((
+                g.terms()
+                    .iter()
+                    .map(|(b, s, n)| (zero(), coef(b), coef(s), *n))
+                    .collect(),
+                false,
+                false,
+            )),
+            Piece::Barnes(g) => Some((
+                g.terms()
+                    .iter()
+                    .map(|(b, s, n)| (zero(), coef(b), coef(s), *n))
+                    .collect(),
+                false,
+                true,
+            )),
+            _ => None,
+        };
+        if let Some((terms, infinite, barnes)) = gammas {
+            for (a, b, s, n) in terms {
+                gamma_points(a, b, s, n, infinite, barnes, zwin, &mut pts)?;
+            }
+            raw.extend(
+                pts.into_iter()
+                    .map(|(l, o)| (axis, to_coord(l), o, label.clone())),
+            );
+            continue;
+        }
         match piece {
-            Piece::Product(g) => {
-                for t in g.terms() {
-                    gamma_points(
-                        coef(&t.step),
-                        coef(&t.offset),
-                        coef(&t.slope),
-                        t.power,
-                        true,
-                        false,
-                        zwin,
-                        &mut pts,
-                    )?;
-                }
-                pts = pts.into_iter().map(|(l, o)| (to_coord(l), o)).collect();
-                raw.extend(pts.into_iter().map(|(l, o)| (axis, l, o, label.clone())));
-            }
-            Piece::Gamma(g) => {
-                for (b, s, n) in g.terms() {
-                    gamma_points(
-                        (0.0, Some(Rational::new())),
-                        coef(b),
-                        coef(s),
-                        *n,
-                        false,
-                        false,
-                        zwin,
-                        &mut pts,
-                    )?;
-                }
-                pts = pts.into_iter().map(|(l, o)| (to_coord(l), o)).collect();
-                raw.extend(pts.into_iter().map(|(l, o)| (axis, l, o, label.clone())));
-            }
-            Piece::Barnes(g) => {
-                for (b, s, n) in g.terms() {
-                    gamma_points(
-                        (0.0, Some(Rational::new())),
-                        coef(b),
-                        coef(s),
-                        *n,
-                        false,
-                        true,
-                        zwin,
-                        &mut pts,
-                    )?;
-                }
-                pts = pts.into_iter().map(|(l, o)| (to_coord(l), o)).collect();
-                raw.extend(pts.into_iter().map(|(l, o)| (axis, l, o, label.clone())));
-            }
+            Piece::Product(_) | Piece::Gamma(_) | Piece::Barnes(_) => {}
             Piece::Cdd(c) => {
                 if axis == Axis::Imaginary {
                     for (a, n) in c.blocks() {

@@ -52,6 +52,19 @@ fn gamma_poles_and_residues() {
                 "n = {n}: {res} vs {want}"
             );
             assert!(res.im.abs() < tol && err < tol);
+            if digits == 30 {
+                // Full precision: the error estimate covers the actual error.
+                let full = p.leading_full.clone().unwrap();
+                let exact = rug::Float::with_val(200, if n % 2 == 0 { 1 } else { -1 })
+                    / rug::Float::with_val(200, rug::Integer::from(rug::Integer::factorial(n as u32)));
+                let d = rug::Float::with_val(200, full.real() - &exact)
+                    .abs()
+                    .to_f64();
+                assert!(
+                    d <= err.max(1e-40) && d < 1e-29,
+                    "n = {n}: actual {d:e}, estimate {err:e}"
+                );
+            }
         }
         let (pts, _) = analyse(&m, "R", &opts(-6.5, 0.5, digits)).unwrap();
         assert!(pts.iter().all(|p| p.point.order == -1));
@@ -167,6 +180,14 @@ fn block_residue_closed_form() {
     let want = 2.0 * (2.0 * std::f64::consts::PI / 5.0).tan();
     assert!((res.im - want).abs() < 1e-14 * want && res.re.abs() < 1e-14);
     assert!(err < 1e-25, "{err}");
+    // At full precision the error estimate covers the actual error.
+    let full = pts[0].leading_full.clone().unwrap();
+    let pi = rug::Float::with_val(200, rug::float::Constant::Pi);
+    let exact = (pi * 2u32 / 5u32).tan() * 2u32;
+    let d = rug::Float::with_val(200, full.imag() - &exact)
+        .abs()
+        .to_f64();
+    assert!(d <= err && d < 1e-29, "actual {d:e}, estimate {err:e}");
 }
 
 /// Γ(z + 1/2)/Γ(2z + 1) = √π 2^{−2z}/Γ(z + 1) (DLMF 5.5.5): the numerator

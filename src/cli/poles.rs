@@ -232,6 +232,7 @@ fn json(factor: &str, args: &PolesArgs, points: &[PointReport], cancelled: &[Sin
                 "order": p.point.order.abs(),
                 "numerical_order": p.numerical_order.map(|o| o.abs()),
                 "leading_coefficient": p.leading.map(|(c, e)| serde_json::json!({"re": c.re, "im": c.im, "error": e})),
+                "leading_coefficient_full": p.leading_full.as_ref().map(|c| serde_json::json!({"re": c.real().to_string_radix(10, Some(args.digits as usize)), "im": c.imag().to_string_radix(10, Some(args.digits as usize))})),
                 "in_physical_strip": p.in_strip,
                 "neg_i_residue": p.neg_i_residue,
                 "bound_state_mass": p.mass,

@@ -277,7 +277,9 @@ pub fn analyse_cdd(
             .map(|w| w.0)
             .unwrap_or(order);
         let neg_i_residue = (dressed_order == 1)
-            .then(|| laurent_coefficient::<Complex64>(&|t: &Complex64| dressed(*t), &c0, r, 1, 128))
+            .then(|| {
+                laurent_coefficient::<Complex64>(&|t: &Complex64| dressed(*t), &c0, r, 1, 128, 1.0)
+            })
             .flatten()
             .map(|(res, err)| (Complex64::new(0.0, -1.0) * res, err));
         added.push(Added {

@@ -478,7 +478,7 @@ fn build_piece(
                         .map(|(a, b, s, n)| GammaTerm::new(a, b, s, n))
                         .collect();
                     GammaProduct::new(terms, scale, normalise)
-                        .map(Piece::Product)
+                        .map(|g| Piece::Product(Box::new(g)))
                         .map_err(here)
                 }
                 "gamma" => {

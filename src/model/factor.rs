@@ -16,7 +16,7 @@ use std::sync::Arc;
 #[derive(Debug)]
 pub enum Piece {
     /// `Π_k Π_j Γ(a_j k + b_j + s_j z)^{n_j}`, possibly normalised.
-    Product(GammaProduct),
+    Product(Box<GammaProduct>),
     /// `Π_j Γ(b_j + s_j z)^{n_j}`.
     Gamma(FiniteGamma),
     /// `Π_j G(b_j + s_j z)^{n_j}`.

@@ -45,27 +45,37 @@ pub fn winding(
 /// The coefficient of `(θ − c)^(−order)` in the Laurent series of `f` at
 /// `c` (the residue for a simple pole, `order = 1`; the leading Taylor
 /// coefficient of a zero of order m, `order = −m`), by the `n`-point
-/// trapezoidal rule on `|θ − c| = r`, and an error estimate: the difference
-/// from the rule on every other node (`n/2` points).
+/// trapezoidal rule on `|θ − c| = r`, and an error estimate. The rule's
+/// error falls like `ρⁿ`, ρ = r/R, where R is the distance to the nearest
+/// other singular point; the difference `δ` from the rule on every other
+/// node (error ~ ρ^(n/2)) then gives the estimate `10·δ·ρ^(n/2)`, plus the
+/// rounding level of the values summed (largest term × 2^−bits × n).
+/// `rate` is ρ (pass 1 to get δ itself).
 pub fn laurent_coefficient<C: ComplexField>(
     f: &dyn Fn(&C) -> Option<C>,
     c: &C,
     r: f64,
     order: i64,
     n: usize,
+    rate: f64,
 ) -> Option<(C, f64)> {
     let wp = c.prec();
     let pi = C::Real::pi(wp);
     let mut full = C::from_i64(0, wp);
     let mut half = C::from_i64(0, wp);
     let rr = C::Real::from_f64(r, wp);
+    // Largest |term| and the fewest bits a value carried: the rounding level.
+    let mut big = f64::NEG_INFINITY;
+    let mut bits = u32::MAX;
     for j in 0..n {
         // e^{iφ}, φ = 2πj/n
         let phi = pi.clone().mul_i64(2 * j as i64).div_i64(n as i64);
         let e = C::from_reals(C::Real::from_i64(0, wp), phi).exp();
         let d = e.mul_real(&rr);
         let v = f(&(c.clone() + &d))?;
+        bits = bits.min(v.prec());
         let term = v * &d.powi(order);
+        big = big.max(term.log2_abs());
         if j % 2 == 0 {
             half += &term;
         }
@@ -73,6 +83,9 @@ pub fn laurent_coefficient<C: ComplexField>(
     }
     let full = full.div_i64(n as i64);
     let half = half.div_i64((n / 2) as i64);
-    let err = (half - &full).log2_abs().exp2();
+    let delta = (half - &full).log2_abs().exp2();
+    // Values rounded to `bits` bits, n of them summed.
+    let rounding = (big - bits as f64 + (n as f64).log2() + 1.0).exp2();
+    let err = 10.0 * delta * rate.clamp(0.0, 1.0).powi((n / 2) as i32) + rounding;
     Some((full, err))
 }

@@ -44,6 +44,8 @@ pub struct PointReport {
     pub numerical_order: Option<i64>,
     /// The coefficient of (θ − θ₀)^(−order): the residue of a simple pole.
     pub leading: Option<(Complex64, f64)>,
+    /// The same coefficient at the working precision.
+    pub leading_full: Option<Complex>,
     /// Whether it lies in the physical strip 0 < Im θ < π.
     pub in_strip: bool,
     /// For a simple pole on the imaginary axis: `−i·Res` (real for a
@@ -165,8 +167,8 @@ pub fn analyse(
         }
         points = kept;
     }
-    let mut out = Vec::new();
-    for (i, p) in points.iter().enumerate() {
+    use rayon::prelude::*;
+    let report = |(i, p): (usize, &Singular)| -> PointReport {
         // Circle radius: well inside the gap to the neighbours.
         let gap = gap_of(&points, &neighbours, i).min(1.0);
         let r = (0.25 * gap).min(0.05);
@@ -174,24 +176,32 @@ pub fn analyse(
         let numerical_order = contour::winding(&log_f, theta0, r, 256).map(|(w, _)| w);
         let digits = opts.prec.decimal_digits().max(1) as f64;
         // Geometric convergence at rate r/gap ≤ 1/4: 1.66 nodes per digit.
-        let n = ((digits * 10f64.ln() / (gap / r).ln()).ceil() as usize * 2 + 32).min(4096);
+        let rate = r / gap;
+        let n = (((digits + 2.0) * 10f64.ln() / -rate.ln()).ceil() as usize + 8).min(4096) & !1;
+        let mut leading_full = None;
         let leading = if opts.prec.bits() <= 53 {
             let g = |t: &Complex64| {
                 f.log_sum::<Complex64>(t, Prec::DOUBLE, Method::Auto)
                     .ok()
                     .map(|s| s.log.value.exp())
             };
-            contour::laurent_coefficient(&g, &theta0, r, p.order, n)
+            contour::laurent_coefficient(&g, &theta0, r, p.order, n, rate)
         } else {
             let wp = opts.prec.bits() + 32;
             let c0 = p.theta_mp(wp);
+            // Values 16 bits beyond the request, so that their rounding,
+            // amplified by |S| ~ |Res|/r on the circle, stays below it.
+            let inner = Prec::from_bits(opts.prec.bits() as u64 + 16).unwrap_or(opts.prec);
             let g = |t: &Complex| {
-                f.log_sum::<Complex>(t, opts.prec, Method::Auto)
+                f.log_sum::<Complex>(t, inner, Method::Auto)
                     .ok()
                     .map(|s| s.log.value.exp())
             };
-            contour::laurent_coefficient(&g, &c0, r, p.order, n)
-                .map(|(v, e)| (Complex64::new(v.re_f64(), v.im_f64()), e))
+            contour::laurent_coefficient(&g, &c0, r, p.order, n, rate).map(|(v, e)| {
+                let d = Complex64::new(v.re_f64(), v.im_f64());
+                leading_full = Some(v);
+                (d, e)
+            })
         };
         let in_strip =
             matches!(p.axis, Axis::Imaginary) && p.coordinate > 0.0 && p.coordinate < 1.0;
@@ -210,15 +220,18 @@ pub fn analyse(
             }
             _ => None,
         };
-        out.push(PointReport {
+        PointReport {
             point: p.clone(),
             numerical_order,
+            leading_full: leading_full
+                .or_else(|| leading.map(|(c, _)| Complex::with_val(53, (c.re, c.im)))),
             leading,
             in_strip,
             neg_i_residue,
             mass,
-        });
-    }
+        }
+    };
+    let out: Vec<PointReport> = points.par_iter().enumerate().map(report).collect();
     Ok((out, cancelled))
 }
 

@@ -5,7 +5,7 @@
 mod common;
 
 use common::*;
-use dressing::factor::{Coef, GammaProduct, GammaTerm, Method, Scale};
+use dressing::factor::{Coef, GammaProduct, GammaTerm, Method, Representation, Scale};
 use dressing::num::ComplexField;
 use dressing::quadrature::{default_rule, Domain};
 use dressing::{Error, Prec};
@@ -61,6 +61,29 @@ fn mixed_step_product() -> GammaProduct {
             t(1, 1, -1, 1),
             t(2, 1, 1, -2),
             t(2, 1, -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap()
+}
+
+/// Π_k Γ(k+1+z)Γ(k+1−z)/(Γ(πk+1+√π z)Γ(πk+1−√π z)), normalised at 0:
+/// steps 1 and π (computed coefficients, incommensurate).
+fn incommensurate_product() -> GammaProduct {
+    let pi = || Coef::computed("pi", |p| Float::with_val(p, Constant::Pi));
+    let rpi = |sign: i32| {
+        Coef::computed("±sqrt(pi)", move |p| {
+            Float::with_val(p, Constant::Pi).sqrt() * sign
+        })
+    };
+    let one = || Coef::integer(1);
+    GammaProduct::new(
+        vec![
+            GammaTerm::new(one(), one(), Coef::integer(1), 1),
+            GammaTerm::new(one(), one(), Coef::integer(-1), 1),
+            GammaTerm::new(pi(), one(), rpi(1), -1),
+            GammaTerm::new(pi(), one(), rpi(-1), -1),
         ],
         Scale::Unit,
         Some((0.0, 0.0)),
@@ -136,9 +159,7 @@ fn continuation_outside_the_strip_matches_product() {
         let r = f
             .log_value(&theta, Prec::digits(40).unwrap(), Method::Integral)
             .unwrap();
-        assert!(
-            matches!(r.representation, dressing::factor::Representation::Integral { peeled } if peeled > 0)
-        );
+        assert!(matches!(r.representation, Representation::Integral { peeled } if peeled > 0));
         let prod = log_minus_s0(&f, &theta, 40, Method::Product);
         assert_agree(
             &r.log.value,
@@ -225,10 +246,12 @@ fn bad_input_to_gamma_products() {
         )
         .unwrap_err();
     assert!(matches!(e, Error::NonFinite { .. }), "{e:?}");
-    // The integral form where steps differ: a clear refusal. This product
-    // (steps 1 and 2, normalised at 0) satisfies every normalised condition:
-    // Σ n s = 0, Σ n s ln a = 0, Σ n s²/a = 2 − 4/2 = 0, Σ n s(2b−1)/a = 0.
-    let g = mixed_step_product();
+    // The integral form where steps are incommensurate (1 and π): a clear
+    // refusal. Normalised at 0, every normalised condition holds:
+    // Σ n s = 0 and Σ n s ln a = 0 (slopes in ± pairs), Σ n s²/a = 2 − 2π/π = 0,
+    // Σ n s(2b−1)/a = 0 (pairs with the same b).
+    let g = incommensurate_product();
+    assert!(g.strip().is_none() && g.convergence().reduction.is_none());
     let e = g
         .log_value(
             &num_complex::Complex64::new(0.1, 0.0),
@@ -237,14 +260,12 @@ fn bad_input_to_gamma_products() {
         )
         .unwrap_err();
     assert!(e.to_string().contains("common step"), "{e}");
-    // The product form still works there.
-    assert!(g
-        .log_value(
-            &num_complex::Complex64::new(0.1, 0.0),
-            Prec::DOUBLE,
-            Method::Product
-        )
-        .is_ok());
+    // The product form still works there, and Auto uses it.
+    for m in [Method::Product, Method::Auto] {
+        assert!(g
+            .log_value(&num_complex::Complex64::new(0.1, 0.0), Prec::DOUBLE, m)
+            .is_ok());
+    }
 }
 
 #[test]
@@ -360,4 +381,241 @@ fn rational_products_are_decided_exactly() {
         .conditions
         .iter()
         .all(|c| !c.exact && c.holds));
+}
+
+#[test]
+fn commensurate_steps_reduced_by_gauss_multiplication() {
+    // Steps 1 and 2 (exact): reduced to step 1, the step-2 terms split in two
+    // by Gauss's multiplication formula (DLMF 5.5.6); product vs integral to
+    // 40 digits in the strip (|Re z| < 1) and outside it (factors taken out).
+    let g = mixed_step_product();
+    let red = g.convergence().reduction.clone().unwrap();
+    assert_eq!(red.step, "1");
+    assert_eq!(red.multiples, vec![1, 1, 2, 2]);
+    for (x, y) in [
+        (0.3, 0.2),
+        (-0.6, 1.5),
+        (0.05, -3.0),
+        (2.5, 0.1),
+        (-3.7, 0.4),
+    ] {
+        let theta = Complex::with_val(256, (x, y));
+        let p = g
+            .log_value(&theta, Prec::digits(40).unwrap(), Method::Product)
+            .unwrap();
+        let i = g
+            .log_value(&theta, Prec::digits(40).unwrap(), Method::Integral)
+            .unwrap();
+        assert!(matches!(i.representation, Representation::Integral { .. }));
+        assert_agree(
+            &p.log.value,
+            &i.log.value,
+            40,
+            &format!("steps 1 and 2 at {x}+{y}i"),
+        );
+        let d = Complex::with_val(256, &p.log.value - &i.log.value);
+        assert!(d.log2_abs() <= (p.log.radius + i.log.radius).log2() + 1.0);
+    }
+}
+
+#[test]
+fn auto_agrees_with_both_methods_and_switches_by_cost() {
+    let f = sine_gordon(2.0 * std::f64::consts::PI / 7.0);
+    // In the strip at double precision the uniform-grid integral is the
+    // cheaper; outside it (factors taken out, the double-exponential rule
+    // near t = 0) the product form is.
+    let inside = f.plan((0.7, 0.2), Prec::DOUBLE).unwrap();
+    assert_eq!(inside.method, Method::Integral, "{inside}");
+    let outside = f.plan((0.7, 1.0), Prec::DOUBLE).unwrap();
+    assert_eq!(outside.method, Method::Product, "{outside}");
+    assert!(outside.integral.unwrap().micros > outside.product.unwrap().micros);
+    // Far from the origin along the real axis the product form needs many
+    // more factors; the integral stays cheap.
+    let far = f.plan((25.0, 0.1), Prec::DOUBLE).unwrap();
+    assert_eq!(far.method, Method::Integral, "{far}");
+    assert!(far.to_string().contains("chose the integral form"));
+    for (x, y) in [(0.7, 0.2), (0.7, 1.0), (-3.0, 0.5), (0.2, 7.3)] {
+        for digits in [15u32, 30] {
+            let prec = if digits == 15 {
+                Prec::DOUBLE
+            } else {
+                Prec::digits(30).unwrap()
+            };
+            let get = |m: Method| -> (Complex, f64) {
+                if digits == 15 {
+                    let v = f
+                        .log_value(&num_complex::Complex64::new(x, y), prec, m)
+                        .unwrap();
+                    (
+                        Complex::with_val(128, (v.log.value.re, v.log.value.im)),
+                        v.log.radius.to_f64(),
+                    )
+                } else {
+                    let v = f
+                        .log_value(&Complex::with_val(128, (x, y)), prec, m)
+                        .unwrap();
+                    (v.log.value, v.log.radius.to_f64())
+                }
+            };
+            let (a, ra) = get(Method::Auto);
+            for m in [Method::Product, Method::Integral] {
+                let (b, rb) = get(m);
+                let d = Complex::with_val(128, &a - &b).abs().real().to_f64();
+                assert!(
+                    d <= ra + rb,
+                    "Auto vs {m:?} at {x}+{y}i, {digits} digits: {d:e} > {ra:e} + {rb:e}"
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn double_path_radii_cover_the_error() {
+    // Reference: the product form at 40 digits (an independent method). The
+    // double path's integral (uniform grid in the strip, double-exponential
+    // outside) and product form must each be within their radius, and the
+    // radius must be small (about 14 digits).
+    let prods = [
+        sine_gordon(2.0 * std::f64::consts::PI / 7.0),
+        sine_gordon(0.8),
+        sine_gordon(2.2),
+    ];
+    let pts = [
+        (0.7, 0.2),
+        (0.0, 0.0),
+        (1e-3, 1e-3),
+        (-2.0, -0.7),
+        (4.0, 0.6),
+        (12.0, -0.3),
+        (-30.0, 0.05),
+        (0.3, 1.9),
+        (-1.0, -4.0),
+    ];
+    for f in &prods {
+        for (x, y) in pts {
+            let exact = f
+                .log_value(
+                    &Complex::with_val(200, (x, y)),
+                    Prec::digits(40).unwrap(),
+                    Method::Product,
+                )
+                .unwrap()
+                .log
+                .value;
+            let ex = num_complex::Complex64::new(exact.real().to_f64(), exact.imag().to_f64());
+            for m in [Method::Integral, Method::Product, Method::Auto] {
+                let v = f
+                    .log_value(&num_complex::Complex64::new(x, y), Prec::DOUBLE, m)
+                    .unwrap();
+                let err = (v.log.value - ex).norm();
+                let r = v.log.radius.to_f64();
+                assert!(err <= r, "{m:?} at {x}+{y}i: error {err:e} > radius {r:e}");
+                assert!(
+                    r <= 1e-11 * ex.norm().max(1.0),
+                    "{m:?} at {x}+{y}i: radius {r:e}"
+                );
+            }
+        }
+    }
+    // A product whose integrand is not even (offsets ¼, ¾ with step 1): the
+    // double-exponential rule on the double path.
+    let q = |n: i64, d: i64| Coef::rational(n, d);
+    let t = |b: Coef, s: i64, n: i64| GammaTerm::new(Coef::integer(1), b, Coef::integer(s), n);
+    let g = GammaProduct::new(
+        vec![
+            t(q(1, 4), 1, 1),
+            t(q(3, 4), -1, 1),
+            t(q(3, 4), 1, 1),
+            t(q(1, 4), -1, 1),
+            t(q(1, 2), 1, -2),
+            t(q(1, 2), -1, -2),
+        ],
+        Scale::Unit,
+        Some((0.0, 0.0)),
+    )
+    .unwrap();
+    for (x, y) in [(0.1, 0.05), (0.2, -1.0), (-0.15, 3.0)] {
+        let exact = g
+            .log_value(
+                &Complex::with_val(200, (x, y)),
+                Prec::digits(40).unwrap(),
+                Method::Product,
+            )
+            .unwrap()
+            .log
+            .value;
+        let ex = num_complex::Complex64::new(exact.real().to_f64(), exact.imag().to_f64());
+        let v = g
+            .log_value(
+                &num_complex::Complex64::new(x, y),
+                Prec::DOUBLE,
+                Method::Integral,
+            )
+            .unwrap();
+        let err = (v.log.value - ex).norm();
+        assert!(
+            err <= v.log.radius.to_f64(),
+            "{x}+{y}i: {err:e} > {:e}",
+            v.log.radius.to_f64()
+        );
+    }
+}
+
+#[test]
+fn batches_match_point_by_point() {
+    let f = sine_gordon(2.0 * std::f64::consts::PI / 7.0);
+    // A line in the strip (one grid), and one leaving it (fallback per point).
+    for (from, to, n) in [
+        ((-6.0, 0.3), (6.0, -0.4), 241),
+        ((0.5, -0.2), (0.5, 2.5), 23),
+    ] {
+        let line = f.log_values_on_line(from, to, n, Method::Auto);
+        assert_eq!(line.len(), n);
+        let step = (
+            (to.0 - from.0) / (n - 1) as f64,
+            (to.1 - from.1) / (n - 1) as f64,
+        );
+        for (k, v) in line.iter().enumerate() {
+            let th =
+                num_complex::Complex64::new(from.0 + step.0 * k as f64, from.1 + step.1 * k as f64);
+            let v = v.as_ref().unwrap();
+            let exact = f
+                .log_value(
+                    &Complex::with_val(200, (th.re, th.im)),
+                    Prec::digits(30).unwrap(),
+                    Method::Product,
+                )
+                .unwrap()
+                .log
+                .value;
+            let ex = num_complex::Complex64::new(exact.real().to_f64(), exact.imag().to_f64());
+            let err = (v.log.value - ex).norm();
+            assert!(
+                err <= v.log.radius.to_f64(),
+                "line point {k} ({th}): {err:e} > {:e}",
+                v.log.radius.to_f64()
+            );
+            let one = f.log_value(&th, Prec::DOUBLE, Method::Auto).unwrap();
+            assert!(
+                (one.log.value - v.log.value).norm() <= (one.log.radius + v.log.radius).to_f64()
+            );
+        }
+    }
+    let ths: Vec<Complex> = [(0.1, 0.2), (2.0, 1.5), (-4.0, -0.1)]
+        .iter()
+        .map(|p| Complex::with_val(200, *p))
+        .collect();
+    let many = f.log_values(&ths, Prec::digits(40).unwrap(), Method::Auto);
+    for (th, v) in ths.iter().zip(&many) {
+        let one = f
+            .log_value(th, Prec::digits(40).unwrap(), Method::Product)
+            .unwrap();
+        assert_agree(
+            &one.log.value,
+            &v.as_ref().unwrap().log.value,
+            40,
+            "log_values",
+        );
+    }
 }

@@ -236,7 +236,12 @@ pub(crate) fn eval_cmd(args: &EvalArgs) -> Result<Report, String> {
     let independent = has_integral(&model, &factor);
     let verify = |t: &Complex, first: &Shown| -> Result<(String, f64), String> {
         let (m2, p2, how) = if independent {
-            let m2 = if method == Method::Integral {
+            // The other representation than the one the first value used.
+            let used_integral = first
+                .pieces
+                .iter()
+                .any(|(kind, how)| kind == "gamma-product" && how.starts_with("integral"));
+            let m2 = if used_integral {
                 Method::Product
             } else {
                 Method::Integral

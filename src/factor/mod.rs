@@ -12,6 +12,7 @@ mod pieces;
 
 pub use coef::Coef;
 pub use gamma_product::{
-    Condition, Convergence, FactorValue, GammaProduct, GammaTerm, Method, Representation, Scale,
+    Condition, Convergence, Cost, FactorValue, GammaProduct, GammaTerm, Method, Plan,
+    Representation, Scale, StepReduction,
 };
 pub use pieces::{BarnesFactor, CddBlock, FiniteGamma};

@@ -25,6 +25,7 @@ pub mod expr;
 pub mod factor;
 pub mod model;
 pub mod num;
+pub mod plot;
 pub mod poles;
 pub mod precision;
 pub mod quadrature;

@@ -11,6 +11,7 @@ mod check;
 mod demo;
 mod eval;
 mod parse;
+mod plot;
 mod poles;
 mod special;
 
@@ -18,6 +19,7 @@ pub use cdd::CddArgs;
 pub use check::CheckArgs;
 pub use eval::EvalArgs;
 pub use parse::parse_complex;
+pub use plot::{PlotArgs, PlotKind};
 pub use poles::PolesArgs;
 
 use crate::num::ComplexField;
@@ -80,6 +82,10 @@ pub enum Command {
     ///
     /// Example: dressing poles examples/lantern.toml --factor dressed --window 0:1 --masses 1,1
     Poles(PolesArgs),
+    /// Draw a factor: phase portrait over the strip, the real line, or the imaginary axis (SVG or PNG).
+    ///
+    /// Example: dressing plot examples/lantern.toml --kind strip --factor sigma --out sigma.svg
+    Plot(PlotArgs),
 }
 
 /// The special functions `dressing special` can evaluate.
@@ -138,6 +144,7 @@ pub fn run(cli: Cli) -> Result<Report, String> {
         Command::Check(args) => check::check_cmd(&args),
         Command::Cdd(args) => cdd::cdd_cmd(&args),
         Command::Poles(args) => poles::poles_cmd(&args),
+        Command::Plot(args) => plot::plot_cmd(&args),
     }
 }
 

@@ -56,7 +56,10 @@ fn gamma_poles_and_residues() {
                 // Full precision: the error estimate covers the actual error.
                 let full = p.leading_full.clone().unwrap();
                 let exact = rug::Float::with_val(200, if n % 2 == 0 { 1 } else { -1 })
-                    / rug::Float::with_val(200, rug::Integer::from(rug::Integer::factorial(n as u32)));
+                    / rug::Float::with_val(
+                        200,
+                        rug::Integer::from(rug::Integer::factorial(n as u32)),
+                    );
                 let d = rug::Float::with_val(200, full.real() - &exact)
                     .abs()
                     .to_f64();

@@ -201,6 +201,11 @@ fn bad_equations_are_clear_errors() {
         "{head}product = [{{ factor = \"S\", at = \"theta\" }}]\nequals = \"q\"\n"
     ));
     assert!(e.contains("`q`"), "{e}");
+    // A right-hand side that does not parse: file position and caret.
+    let e = err(&format!(
+        "{head}product = [{{ factor = \"S\", at = \"theta\" }}]\nequals = \"1 + *\"\n"
+    ));
+    assert!(e.starts_with("m.toml:9:") && e.contains('^'), "{e}");
     let e = err(&format!("{head}product = []\n"));
     assert!(e.contains("needs `product"), "{e}");
     let e = err(&format!(

@@ -15,23 +15,61 @@ fn dressing(args: &[&str]) -> (i32, String, String) {
 }
 
 #[test]
-fn demo_runs_and_its_checks_agree() {
+fn demo_runs_end_to_end_and_agrees_with_the_commands() {
     let (code, out, _) = dressing(&["demo"]);
-    assert_eq!(code, 0);
-    // Γ(1/2)² = π (DLMF 5.4.6) and ψ(1) = −γ (DLMF 5.4.12) at 100 digits.
+    assert_eq!(code, 0, "{out}");
+    // Evaluation: each value checked by the other representation, to the 30 digits asked.
+    assert_eq!(
+        out.matches("verify: product form agrees to 3").count()
+            + out.matches("verify: integral form agrees to 3").count(),
+        3,
+        "{out}"
+    );
+    assert!(
+        out.contains("integral continued outside its strip"),
+        "{out}"
+    );
+    // The demo's value at 0.7+0.2i agrees with `dressing eval` at 50 digits.
+    let line = out
+        .lines()
+        .find(|l| l.starts_with("  S        = "))
+        .unwrap()
+        .to_string();
+    let (_, ev, _) = dressing(&[
+        "eval",
+        &example("lantern.toml"),
+        "--at",
+        "0.7+0.2i",
+        "--digits",
+        "50",
+    ]);
+    let re_demo = line
+        .trim_start_matches("  S        = ")
+        .split(' ')
+        .next()
+        .unwrap();
+    let mantissa = &re_demo[..25];
+    assert!(ev.contains(mantissa), "{re_demo} not in\n{ev}");
+    // Equations: all four pass; poles: the expected ones, with their signs.
+    assert_eq!(out.matches("  PASS").count(), 4, "{out}");
+    assert!(!out.contains("FAIL"), "{out}");
+    assert!(
+        out.contains("7/40  pole") && out.contains("33/40  pole"),
+        "{out}"
+    );
+    assert!(out.contains("equations kept       3 of 3"), "{out}");
+    // Pictures written where it says.
+    let dir = std::env::temp_dir().join("dressing-demo");
+    for f in ["dressed-strip.svg", "dressed-axis.svg", "lantern.toml"] {
+        assert!(dir.join(f).exists(), "{f}");
+    }
+    // The numeric core: Γ(1/2)² = π (DLMF 5.4.6) and ψ(1) = −γ (DLMF 5.4.12) at 100 digits.
     assert!(
         out.contains("Γ(1/2)² = π (DLMF 5.4.6): agrees to 10"),
         "{out}"
     );
     assert!(
         out.contains("ψ(1) = −γ (DLMF 5.4.12): agrees to 100"),
-        "{out}"
-    );
-    // The factor's two representations agree to the 30 digits asked for,
-    // in the strip and outside it.
-    assert_eq!(out.matches("agrees to 3").count(), 2, "{out}");
-    assert!(
-        out.contains("integral continued outside its strip"),
         "{out}"
     );
 }

@@ -17,7 +17,7 @@ mod special;
 
 pub use cdd::CddArgs;
 pub use check::CheckArgs;
-pub use eval::EvalArgs;
+pub use eval::{EvalArgs, MethodArg};
 pub use parse::parse_complex;
 pub use plot::{PlotArgs, PlotKind};
 pub use poles::PolesArgs;
@@ -132,7 +132,7 @@ impl From<String> for Report {
 /// with a message naming the option or file and what to change.
 pub fn run(cli: Cli) -> Result<Report, String> {
     match cli.command {
-        Command::Demo => Ok(demo::demo().into()),
+        Command::Demo => Ok(demo::demo()),
         Command::Special {
             function,
             at,

@@ -146,12 +146,8 @@ fn example_equations_pass() {
     assert!(!check_equation(&m, &h, &opts).passed);
 }
 
-#[test]
-fn points_near_poles_are_skipped() {
-    // f_{1/3} has a pole at θ = iπ/3 and a zero at θ = 2iπ/3 (mod 2πi):
-    // a region around the pole loses points to the margin, and none of
-    // the kept points is within the margin.
-    let text = r#"
+/// One standard block f_{1/3} and its unitarity.
+const ONE_BLOCK: &str = r#"
 [[factor]]
 name = "S"
 [[factor.piece]]
@@ -161,7 +157,13 @@ blocks = [ { alpha = "1/3" } ]
 name = "unitarity"
 product = [ { factor = "S", at = "theta" }, { factor = "S", at = "-theta" } ]
 "#;
-    let m = Model::from_toml(text, "m.toml").unwrap();
+
+#[test]
+fn points_near_poles_are_skipped() {
+    // f_{1/3} has a pole at θ = iπ/3 and a zero at θ = 2iπ/3 (mod 2πi):
+    // a region around the pole loses points to the margin, and none of
+    // the kept points is within the margin.
+    let m = Model::from_toml(ONE_BLOCK, "m.toml").unwrap();
     let mut opts = CheckOptions::new(30).unwrap();
     opts.default_regions = false;
     opts.points_per_region = 40;
@@ -277,17 +279,7 @@ fn a_perturbed_parameter_fails_crossing() {
 
 #[test]
 fn a_region_with_no_admissible_points_does_not_pass() {
-    let text = r#"
-[[factor]]
-name = "S"
-[[factor.piece]]
-kind = "cdd"
-blocks = [ { alpha = "1/3" } ]
-[[equation]]
-name = "unitarity"
-product = [ { factor = "S", at = "theta" }, { factor = "S", at = "-theta" } ]
-"#;
-    let m = Model::from_toml(text, "m.toml").unwrap();
+    let m = Model::from_toml(ONE_BLOCK, "m.toml").unwrap();
     let mut opts = CheckOptions::new(20).unwrap();
     opts.default_regions = false;
     // A box of side 2·10⁻⁴ around the pole at iπ/3.

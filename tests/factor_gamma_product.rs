@@ -268,15 +268,12 @@ fn bad_input_to_gamma_products() {
     }
 }
 
-#[test]
-fn crossing_symmetric_tail_with_vanishing_odd_terms() {
-    // Π_k Γ(k+¼+z)Γ(k+¾−z)Γ(k+¾+z)Γ(k+¼−z) / (Γ(k+½+z)Γ(k+½−z))², normalised
-    // at 0: offsets pair as (c, 1−c), so every odd tail coefficient vanishes.
-    // A stopping rule that trusts one small term stops too early here
-    // (found in review); product and integral must still agree.
+/// Π_k Γ(k+¼+z)Γ(k+¾−z)Γ(k+¾+z)Γ(k+¼−z) / (Γ(k+½+z)Γ(k+½−z))², z = θ,
+/// normalised at 0.
+fn quarter_product() -> GammaProduct {
     let q = |n: i64, d: i64| Coef::rational(n, d);
     let t = |b: Coef, s: i64, n: i64| GammaTerm::new(Coef::integer(1), b, Coef::integer(s), n);
-    let f = GammaProduct::new(
+    GammaProduct::new(
         vec![
             t(q(1, 4), 1, 1),
             t(q(3, 4), -1, 1),
@@ -288,7 +285,16 @@ fn crossing_symmetric_tail_with_vanishing_odd_terms() {
         Scale::Unit,
         Some((0.0, 0.0)),
     )
-    .unwrap();
+    .unwrap()
+}
+
+#[test]
+fn crossing_symmetric_tail_with_vanishing_odd_terms() {
+    // Π_k Γ(k+¼+z)Γ(k+¾−z)Γ(k+¾+z)Γ(k+¼−z) / (Γ(k+½+z)Γ(k+½−z))², normalised
+    // at 0: offsets pair as (c, 1−c), so every odd tail coefficient vanishes.
+    // A stopping rule that trusts one small term stops too early here
+    // (found in review); product and integral must still agree.
+    let f = quarter_product();
     for digits in [30u32, 60] {
         let theta = Complex::with_val(bits(digits) + 30, (0.3, 0.2));
         let p = f
@@ -520,21 +526,7 @@ fn double_path_radii_cover_the_error() {
     }
     // A product whose integrand is not even (offsets ¼, ¾ with step 1): the
     // double-exponential rule on the double path.
-    let q = |n: i64, d: i64| Coef::rational(n, d);
-    let t = |b: Coef, s: i64, n: i64| GammaTerm::new(Coef::integer(1), b, Coef::integer(s), n);
-    let g = GammaProduct::new(
-        vec![
-            t(q(1, 4), 1, 1),
-            t(q(3, 4), -1, 1),
-            t(q(3, 4), 1, 1),
-            t(q(1, 4), -1, 1),
-            t(q(1, 2), 1, -2),
-            t(q(1, 2), -1, -2),
-        ],
-        Scale::Unit,
-        Some((0.0, 0.0)),
-    )
-    .unwrap();
+    let g = quarter_product();
     for (x, y) in [(0.1, 0.05), (0.2, -1.0), (-0.15, 3.0)] {
         let exact = g
             .log_value(

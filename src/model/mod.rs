@@ -263,6 +263,12 @@ impl Model {
     /// The factor `name` at θ: `log S` on the continuous branch, `S`, and
     /// how each piece was computed. `method` applies to the gamma products.
     ///
+    /// Cost: fixing the branch takes at least 17 double-precision values of
+    /// the factor along the path (more near poles). Code that calls a factor
+    /// millions of times and needs S rather than a continuous log should
+    /// call [`Factor::log_sum`] directly, and code that walks a line should
+    /// use [`Model::evaluate_line`].
+    ///
     /// Errors: those of [`Factor::log_sum`] (poles and zeros with their
     /// summed orders), and [`Error::Domain`] when the straight path from
     /// the base point meets a pole or zero, so that the branch is not

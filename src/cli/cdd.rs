@@ -81,13 +81,7 @@ fn u_text(a: &crate::equations::Added) -> String {
 
 pub(crate) fn cdd_cmd(args: &CddArgs) -> Result<Report, String> {
     let model = super::eval::load_model(&args.model, &args.set)?;
-    let target = match &args.factor {
-        Some(f) => {
-            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
-            f.clone()
-        }
-        None => model.factors()[0].name().to_string(),
-    };
+    let target = super::eval::pick_factor(&model, &args.factor)?;
     let cand = candidate_text(&args.candidate)?;
     let mut opts =
         CheckOptions::new(args.digits).map_err(|e| format!("--digits {}: {e}", args.digits))?;

@@ -148,6 +148,22 @@ pub(crate) fn load_model(path: &str, set: &[String]) -> Result<Model, String> {
     }
 }
 
+/// The factor named by `--factor`, or the model's first factor.
+pub(crate) fn pick_factor(model: &Model, factor: &Option<String>) -> Result<String, String> {
+    match factor {
+        Some(f) => {
+            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
+            Ok(f.clone())
+        }
+        // A model always has at least one factor (the loader refuses none).
+        None => model
+            .factors()
+            .first()
+            .map(|f| f.name().to_string())
+            .ok_or_else(|| format!("{}: the model has no factors", model.file())),
+    }
+}
+
 /// Reads `--points FILE`: one rapidity per line, `#` comments.
 fn read_points(path: &str) -> Result<Vec<(String, String)>, String> {
     let text = std::fs::read_to_string(path)
@@ -186,13 +202,7 @@ pub(crate) fn eval_cmd(args: &EvalArgs) -> Result<Report, String> {
             .with_parameters(&overrides)
             .map_err(|e| e.to_string())?
     };
-    let factor = match &args.factor {
-        Some(f) => {
-            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
-            f.clone()
-        }
-        None => model.factors()[0].name().to_string(),
-    };
+    let factor = pick_factor(&model, &args.factor)?;
     let mut inputs: Vec<(String, String)> = args
         .at
         .iter()

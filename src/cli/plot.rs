@@ -125,17 +125,7 @@ fn parse_range(
 
 pub(crate) fn plot_cmd(args: &PlotArgs) -> Result<Report, String> {
     let model = super::eval::load_model(&args.model, &args.set)?;
-    let factor = match &args.factor {
-        Some(f) => {
-            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
-            f.clone()
-        }
-        None => model
-            .factors()
-            .first()
-            .map(|f| f.name().to_string())
-            .ok_or_else(|| format!("{}: the model has no factors", args.model))?,
-    };
+    let factor = super::eval::pick_factor(&model, &args.factor)?;
     let size = parse_size(&args.size)?;
     let prec = Prec::digits(args.digits).map_err(|e| format!("--digits {}: {e}", args.digits))?;
     let prec = if args.digits <= 12 {

@@ -47,13 +47,7 @@ fn pair(text: &str, sep: char, what: &str, example: &str) -> Result<(f64, f64), 
 
 pub(crate) fn poles_cmd(args: &PolesArgs) -> Result<Report, String> {
     let model = super::eval::load_model(&args.model, &args.set)?;
-    let factor = match &args.factor {
-        Some(f) => {
-            model.factor(f).map_err(|e| format!("--factor {f}: {e}"))?;
-            f.clone()
-        }
-        None => model.factors()[0].name().to_string(),
-    };
+    let factor = super::eval::pick_factor(&model, &args.factor)?;
     let window = pair(&args.window, ':', "--window", "--window 0:1")?;
     let masses = match &args.masses {
         Some(m) => Some(pair(m, ',', "--masses", "--masses 1,1")?),

@@ -133,13 +133,10 @@ impl Model {
     /// checking commands then move to another point.
     pub fn residual(&self, eq: &Equation, theta: &Complex, prec: Prec) -> Result<Residual> {
         let wp = prec.bits() + 32;
-        let vals = self.parameters().at(wp)?;
-        let th = Complex::with_val(wp, theta);
-        let mut env: Vec<(&str, Complex)> =
-            vals.iter().map(|(n, v)| (n.as_str(), v.clone())).collect();
-        env.push(("theta", th.clone()));
         let (scale, _) = self.scale();
-        env.push(("z", scale.z_of(&th)));
+        let env = self
+            .parameters()
+            .bindings(wp, &Complex::with_val(wp, theta), scale)?;
         let mut lhs = Complex::new(wp);
         let mut radius = Radius::ZERO;
         for e in &eq.entries {
@@ -157,12 +154,9 @@ impl Model {
         // The right-hand side, at two precisions for its error estimate.
         let rhs = |p: u32| -> Result<Complex> {
             let pr = Prec::from_bits(p as u64)?;
-            let vals = self.parameters().at(p + 16)?;
-            let th = Complex::with_val(p + 16, theta);
-            let mut env: Vec<(&str, Complex)> =
-                vals.iter().map(|(n, v)| (n.as_str(), v.clone())).collect();
-            env.push(("theta", th.clone()));
-            env.push(("z", scale.z_of(&th)));
+            let env =
+                self.parameters()
+                    .bindings(p + 16, &Complex::with_val(p + 16, theta), scale)?;
             let calls = |name: &str, args: &[Complex]| -> Option<Result<Complex>> {
                 let f = self.factor(name).ok()?;
                 Some(if args.len() != 1 {
@@ -253,22 +247,9 @@ impl Model {
     pub fn clear_of_singularities(&self, eq: &Equation, theta: Complex64, margin: f64) -> bool {
         let h = 1e-5;
         let env_at = |t: Complex64| -> Vec<(String, Complex64)> {
-            let vals = match self.parameters().at(53) {
-                Ok(v) => v,
-                Err(_) => return Vec::new(),
-            };
-            let mut env: Vec<(String, Complex64)> = vals
-                .iter()
-                .map(|(n, v)| {
-                    (
-                        n.clone(),
-                        Complex64::new(v.real().to_f64(), v.imag().to_f64()),
-                    )
-                })
-                .collect();
-            env.push(("theta".into(), t));
-            env.push(("z".into(), self.scale().0.z_of(&t)));
-            env
+            self.parameters()
+                .bindings(53, &t, self.scale().0)
+                .unwrap_or_default()
         };
         let log_entry = |e: &Entry, t: Complex64| -> Option<Complex64> {
             let at: Complex64 = e.at.eval(&env_at(t), 53).ok()?;

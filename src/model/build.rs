@@ -142,6 +142,7 @@ pub(crate) fn build(source: Source, overrides: &[(String, String)]) -> Result<Mo
             name: name.clone(),
             description: spec.description.clone(),
             pieces,
+            base_phase: 0.0,
         });
     }
     if factors.is_empty() {

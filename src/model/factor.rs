@@ -64,6 +64,9 @@ pub struct Factor {
     pub(crate) name: String,
     pub(crate) description: Option<String>,
     pub(crate) pieces: Vec<Piece>,
+    /// Im log S at the model's base point (double precision), where the
+    /// continuous branch starts; set when the model is assembled.
+    pub(crate) base_phase: f64,
 }
 
 /// A pole (order > 0) or zero (order < 0) met at a point, or a removable
@@ -255,13 +258,7 @@ impl ExpressionPiece {
     }
 
     fn eval_at<C: ComplexField>(&self, theta: &C, wp: u32) -> Result<C> {
-        let vals = self.params.at(wp)?;
-        let mut env: Vec<(&str, C)> = vals
-            .iter()
-            .map(|(n, v)| (n.as_str(), from_rug::<C>(v, wp)))
-            .collect();
-        env.push(("theta", theta.with_prec(wp)));
-        env.push(("z", self.scale.z_of(&theta.with_prec(wp))));
+        let env = self.params.bindings(wp, theta, self.scale)?;
         let v: C = self.expr.eval(&env, wp).map_err(|e| match e {
             Error::Expression { message, .. } if message.contains("division by zero") => {
                 Error::Domain {

@@ -159,7 +159,7 @@ impl Model {
             .eval(&**vals, 64)
             .map_err(|e| crate::expr::with_location(e, "[rapidity] base"))?;
         let base_f64 = Complex64::new(b.real().to_f64(), b.imag().to_f64());
-        let m = Model {
+        let mut m = Model {
             source,
             name,
             description,
@@ -172,9 +172,12 @@ impl Model {
             equations,
             overrides,
         };
-        // The base point must be a regular point of every factor.
-        for f in &m.factors {
-            f.log_sum::<Complex64>(&m.base_f64, Prec::DOUBLE, Method::Auto)
+        // The base point must be a regular point of every factor; its phase
+        // there starts each continuation.
+        for f in &mut m.factors {
+            f.base_phase = f
+                .log_sum::<Complex64>(&m.base_f64, Prec::DOUBLE, Method::Auto)
+                .map(|s| s.log.value.im)
                 .map_err(|e| Error::Model {
                     location: m.source.name.clone(),
                     message: format!(
@@ -287,8 +290,7 @@ impl Model {
             f.log_sum::<Complex64>(&t, Prec::DOUBLE, Method::Auto)
                 .map(|s| s.log.value)
         };
-        let im_base = eval(self.base_f64)?.im;
-        let im = branch::continue_phase(&eval, self.base_f64, im_base, target)?;
+        let im = branch::continue_phase(&eval, self.base_f64, f.base_phase, target)?;
         Ok(self.finish(theta, sum, im))
     }
 
@@ -331,8 +333,7 @@ impl Model {
             .iter()
             .map(|t| Complex64::new(t.re_f64(), t.im_f64()))
             .collect();
-        let im_base = eval(self.base_f64)?.im;
-        let first = branch::continue_phase(&eval, self.base_f64, im_base, targets[0]);
+        let first = branch::continue_phase(&eval, self.base_f64, f.base_phase, targets[0]);
         // Each step of the line is continued independently (in parallel);
         // the phase increments are then added up in order.
         let steps: Vec<Result<f64>> = targets

@@ -194,6 +194,25 @@ impl Parameters {
         Ok(vals)
     }
 
+    /// The names an expression may use at a rapidity: every parameter at
+    /// `wp` bits, `theta`, and the pieces' variable `z`, on either path.
+    pub(crate) fn bindings<C: crate::num::ComplexField>(
+        &self,
+        wp: u32,
+        theta: &C,
+        scale: crate::factor::Scale,
+    ) -> Result<Vec<(String, C)>> {
+        let vals = self.at(wp)?;
+        let th = theta.with_prec(wp);
+        let mut env: Vec<(String, C)> = vals
+            .iter()
+            .map(|(n, v)| (n.clone(), super::factor::from_rug::<C>(v, wp)))
+            .collect();
+        env.push(("z".into(), scale.z_of(&th)));
+        env.push(("theta".into(), th));
+        Ok(env)
+    }
+
     /// Every parameter at `wp` bits, as a crate error.
     pub fn at(&self, wp: u32) -> Result<Values> {
         self.values(wp).map_err(|(name, e)| Error::Domain {

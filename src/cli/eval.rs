@@ -53,7 +53,7 @@ pub struct EvalArgs {
 }
 
 /// Requests of at most this many digits run on the double path.
-const DOUBLE_DIGITS: u64 = 12;
+pub(crate) const DOUBLE_DIGITS: u64 = 12;
 
 /// `--method`.
 #[derive(Clone, Copy, Debug, ValueEnum, PartialEq, Eq)]
@@ -162,6 +162,21 @@ pub(crate) fn pick_factor(model: &Model, factor: &Option<String>) -> Result<Stri
             .map(|f| f.name().to_string())
             .ok_or_else(|| format!("{}: the model has no factors", model.file())),
     }
+}
+
+/// Reads `--line FROM:TO`: two rapidities (numbers or expressions in the
+/// model's parameters) at `wp` bits.
+pub(crate) fn parse_line(model: &Model, line: &str, wp: u32) -> Result<(Complex, Complex), String> {
+    let (a, b) = line
+        .split_once(':')
+        .ok_or_else(|| format!("--line {line}: write FROM:TO, e.g. --line -3:3"))?;
+    let from = model
+        .rapidity(a, wp)
+        .map_err(|e| format!("--line {line}: cannot read `{a}`: {e}"))?;
+    let to = model
+        .rapidity(b, wp)
+        .map_err(|e| format!("--line {line}: cannot read `{b}`: {e}"))?;
+    Ok((from, to))
 }
 
 /// Reads `--points FILE`: one rapidity per line, `#` comments.
@@ -295,15 +310,7 @@ pub(crate) fn eval_cmd(args: &EvalArgs) -> Result<Report, String> {
         })
         .collect();
     if let Some(line) = &args.line {
-        let (a, b) = line
-            .split_once(':')
-            .ok_or_else(|| format!("--line {line}: write FROM:TO, e.g. --line -3:3"))?;
-        let from = model
-            .rapidity(a, wp)
-            .map_err(|e| format!("--line {line}: cannot read `{a}`: {e}"))?;
-        let to = model
-            .rapidity(b, wp)
-            .map_err(|e| format!("--line {line}: cannot read `{b}`: {e}"))?;
+        let (from, to) = parse_line(&model, line, wp)?;
         let out = if double {
             let c = |z: &Complex| Complex64::new(z.real().to_f64(), z.imag().to_f64());
             model

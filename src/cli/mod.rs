@@ -2,7 +2,9 @@
 //!
 //! Subcommands: `demo` (the built-in demonstration), `special` (one of the
 //! special functions at points and a precision), `eval` (a factor of a
-//! model file at rapidities) and `check` (the model's functional equations). Every
+//! model file at rapidities), `check` (the model's functional equations),
+//! `cdd` (a proposed CDD factor), `poles` (poles and zeros), `plot` and
+//! `table` (a factor and its kernel on a line, for other codes). Every
 //! error a user can cause comes back as a message naming the option and what
 //! to change, with a non-zero exit status.
 
@@ -14,6 +16,7 @@ mod parse;
 mod plot;
 mod poles;
 mod special;
+mod table;
 
 pub use cdd::CddArgs;
 pub use check::CheckArgs;
@@ -21,6 +24,7 @@ pub use eval::{EvalArgs, MethodArg};
 pub use parse::parse_complex;
 pub use plot::{PlotArgs, PlotKind};
 pub use poles::PolesArgs;
+pub use table::{TableArgs, TableFormat};
 
 use crate::num::ComplexField;
 use clap::{Parser, Subcommand, ValueEnum};
@@ -68,7 +72,7 @@ pub enum Command {
     },
     /// Evaluate a factor of a model file at rapidities.
     ///
-    /// Example: dressing eval examples/ember.toml --at 0.7+0.2i --at i*pi/3 --digits 40 --verify
+    /// Example: dressing eval examples/lantern.toml --at 0.7+0.2i --at i*pi/3 --digits 40 --verify
     Eval(EvalArgs),
     /// Check the model's functional equations (unitarity, crossing, …) at sampled points.
     ///
@@ -86,6 +90,10 @@ pub enum Command {
     ///
     /// Example: dressing plot examples/lantern.toml --kind strip --factor sigma --out sigma.svg
     Plot(PlotArgs),
+    /// Tabulate a factor on a line for other codes: S, the continuous phase δ and the kernel φ = −i d/dθ log S.
+    ///
+    /// Example: dressing table examples/lantern.toml --factor dressed --line -8:8 --n 401 --format tsv
+    Table(TableArgs),
 }
 
 /// The special functions `dressing special` can evaluate.
@@ -145,6 +153,7 @@ pub fn run(cli: Cli) -> Result<Report, String> {
         Command::Cdd(args) => cdd::cdd_cmd(&args),
         Command::Poles(args) => poles::poles_cmd(&args),
         Command::Plot(args) => plot::plot_cmd(&args),
+        Command::Table(args) => table::table_cmd(&args),
     }
 }
 

@@ -121,6 +121,7 @@
 //! that parses back to the same tree.
 
 mod analysis;
+mod derivative;
 mod display;
 mod eval;
 mod lexer;
@@ -269,6 +270,36 @@ impl Expr {
             prec,
         };
         ctx.eval(&self.node)
+    }
+
+    /// The derivative with respect to a variable x, given the derivative of
+    /// each name that depends on x (`wrt`); every other name is a constant.
+    /// Symbolic: chain, product and quotient rules and the derivatives of
+    /// the built-ins (see `derivative.rs`); an exact zero is `Ok(None)`.
+    ///
+    /// Errors: [`Error::Expression`] for a call of a user function, or
+    /// `polygamma` with an order that depends on x.
+    ///
+    /// ```
+    /// use dressing::expr::{Expr, Node};
+    /// use num_complex::Complex64;
+    /// let e = Expr::parse("theta^2 * exp(a*theta) / sinh(theta)").unwrap();
+    /// let d = e.derivative(&[("theta", Expr::parse("1").unwrap().node().clone())]).unwrap().unwrap();
+    /// let (t, a) = (Complex64::new(0.7, 0.2), Complex64::new(0.3, 0.0));
+    /// let got: Complex64 = d.eval(&[("theta", t), ("a", a)], 53).unwrap();
+    /// let want = (2.0 * t + a * t * t - t * t * t.cosh() / t.sinh()) * (a * t).exp() / t.sinh();
+    /// assert!((got - want).norm() < 1e-14);
+    /// assert!(Expr::parse("a + pi").unwrap().derivative(&[("theta", Node::I)]).unwrap().is_none());
+    /// ```
+    pub fn derivative(&self, wrt: &[(&str, Node)]) -> Result<Option<Expr>> {
+        derivative::derivative(&self.node, wrt)
+            .map(|d| d.map(Expr::from_node))
+            .map_err(|message| Error::Expression {
+                location: None,
+                expr: self.source.clone(),
+                column: None,
+                message,
+            })
     }
 
     /// The names of the parameters used, sorted (constants and function

@@ -538,6 +538,7 @@ fn build_piece(
                 is_log,
                 params: Arc::clone(params),
                 scale,
+                derivative: Default::default(),
             }))
         }
     }

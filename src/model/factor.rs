@@ -37,6 +37,8 @@ pub struct ExpressionPiece {
     pub is_log: bool,
     pub(crate) params: Arc<Parameters>,
     pub(crate) scale: Scale,
+    /// `d expr/dθ`, made on first use.
+    pub(crate) derivative: std::sync::OnceLock<Result<Option<Expr>>>,
 }
 
 /// How one piece was computed at one point.
@@ -128,28 +130,77 @@ impl Factor {
         prec: Prec,
         method: Method,
     ) -> Result<LogSum<C>> {
+        let mut reports = Vec::with_capacity(self.pieces.len());
+        let log = self.sum_pieces(theta, prec, |piece| {
+            piece.log_value(theta, prec, method).map(|(v, rep)| {
+                reports.push(rep);
+                v
+            })
+        })?;
+        Ok(LogSum {
+            log,
+            pieces: reports,
+        })
+    }
+
+    /// The kernel `d/dθ log S` at θ, at `prec`: the sum of the pieces'
+    /// analytic derivatives (ψ sums and the differentiated analytic tail for
+    /// gamma products, ψ for Γ and G factors, the closed form for CDD
+    /// blocks, the symbolic derivative for expressions), with the sum of
+    /// their error estimates. `−i` times it is the TBA kernel φ(θ).
+    ///
+    /// Errors: as [`Factor::log_sum`] at poles and zeros of the factor,
+    /// where the kernel has a simple pole; [`Error::Expression`] for an
+    /// expression piece that cannot be differentiated.
+    ///
+    /// ```
+    /// use dressing::model::Model;
+    /// use dressing::Prec;
+    /// use num_complex::Complex64;
+    /// let m = Model::from_toml("[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = \"1/2\" }]\n", "m.toml").unwrap();
+    /// // f_{1/2}(θ) = (sinh θ + i)/(sinh θ − i): d/dθ log f = −2i/cosh θ
+    /// let th = Complex64::new(0.8, 0.0);
+    /// let d = m.factor("S").unwrap().log_derivative(&th, Prec::DOUBLE).unwrap();
+    /// assert!((d.value - Complex64::new(0.0, -2.0) / th.cosh()).norm() < 1e-14);
+    /// ```
+    pub fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        self.sum_pieces(theta, prec, |piece| piece.log_derivative(theta, prec))
+    }
+
+    /// The factor at double precision for branch continuation: the sum of
+    /// principal logs and the kernel (`None` where a piece cannot be
+    /// differentiated; continuation then falls back to sampling alone).
+    pub(crate) fn branch_sample(&self, t: num_complex::Complex64) -> Result<super::branch::Sample> {
+        let log = self.log_sum(&t, Prec::DOUBLE, Method::Auto)?.log.value;
+        let k = self.log_derivative(&t, Prec::DOUBLE).ok().map(|k| k.value);
+        Ok((log, k))
+    }
+
+    /// `Σ_pieces f(piece)` with the radii added; where pieces are singular
+    /// the orders are summed over all of them and the error reports the total.
+    fn sum_pieces<C: ComplexField>(
+        &self,
+        theta: &C,
+        prec: Prec,
+        mut f: impl FnMut(&Piece) -> Result<Approx<C>>,
+    ) -> Result<Approx<C>> {
         let mut total: Option<C> = None;
         let mut radius = Radius::ZERO;
-        let mut reports = Vec::with_capacity(self.pieces.len());
         let mut order = 0i64;
         let mut met = false;
-        let mut first_singular: Option<Error> = None;
         for piece in &self.pieces {
-            let r = piece.log_value(theta, prec, method);
-            match r {
-                Ok((v, rep)) => {
+            match f(piece) {
+                Ok(v) => {
                     radius += v.radius;
                     total = Some(match total {
                         None => v.value,
                         Some(t) => t + &v.value,
                     });
-                    reports.push(rep);
                 }
                 Err(e) => match singular(&e) {
                     Some(Singular::Order(o)) => {
                         met = true;
                         order += o;
-                        first_singular.get_or_insert(e);
                     }
                     None => return Err(e),
                 },
@@ -181,10 +232,7 @@ impl Factor {
         }
         let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
         let value = total.unwrap_or_else(|| C::from_i64(0, p));
-        Ok(LogSum {
-            log: Approx::new(value, radius, p),
-            pieces: reports,
-        })
+        Ok(Approx::new(value, radius, p))
     }
 }
 
@@ -236,30 +284,85 @@ impl Piece {
     }
 }
 
+impl Piece {
+    /// `d/dθ` of the piece's logarithm at θ (see [`Factor::log_derivative`]).
+    pub fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        match self {
+            Piece::Product(g) => g.log_derivative(theta, prec),
+            Piece::Gamma(g) => g.log_derivative(theta, prec),
+            Piece::Barnes(g) => g.log_derivative(theta, prec),
+            Piece::Cdd(c) => c.log_derivative(theta, prec),
+            Piece::Expression(e) => e.log_derivative(theta, prec),
+        }
+    }
+}
+
 impl ExpressionPiece {
     /// The piece's logarithm at θ: the expression evaluated at the working
     /// precision and again 32 bits higher; the difference (plus a rounding
     /// allowance) is the error estimate, so cancellation inside the formula
     /// shows up in the radius.
     pub fn log_value<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
-        let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
-        let wp = match C::MAX_PREC {
-            Some(m) => m,
-            None => prec.bits() + 16,
-        };
-        let lo: C = self.eval_at(theta, wp)?;
-        let theta_hi = to_rug(theta, wp + 32);
-        let hi: Complex = self.eval_at(&theta_hi, wp + 32)?;
-        let lo_c = to_rug(&lo, wp + 32);
-        let diff = Complex::with_val(wp + 32, &hi - &lo_c);
-        let mut radius = Radius::from_log2(diff.log2_abs()).times(2.0);
-        radius += Radius::from_log2(lo.log2_abs() - p as f64 + 1.0);
-        Ok(Approx::new(lo, radius, p))
+        twice(
+            theta,
+            prec,
+            |t, wp| self.eval_at(t, wp),
+            |t, wp| self.eval_at(t, wp),
+        )
     }
 
-    fn eval_at<C: ComplexField>(&self, theta: &C, wp: u32) -> Result<C> {
+    /// `d/dθ` of the piece's logarithm: the symbolic derivative of the
+    /// expression ([`Expr::derivative`], with `dz/dθ` from the model's
+    /// scale), divided by the value for a value piece; error estimate as
+    /// for [`log_value`](Self::log_value).
+    ///
+    /// Errors: [`Error::Expression`] when the expression calls something
+    /// that cannot be differentiated; [`Error::Domain`] at a zero or pole.
+    pub fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        let d = self
+            .derivative
+            .get_or_init(|| {
+                let dz = match self.scale {
+                    Scale::Unit => "1",
+                    Scale::OverIPi => "1/(i*pi)",
+                    Scale::Over2PiI => "1/(2*pi*i)",
+                };
+                let dz = Expr::parse(dz).expect("fixed text").node().clone();
+                let one = Expr::parse("1").expect("fixed text").node().clone();
+                self.expr.derivative(&[("theta", one), ("z", dz)])
+            })
+            .clone()?;
+        let Some(d) = d else {
+            let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
+            return Ok(Approx::new(C::from_i64(0, p), Radius::ZERO, p));
+        };
+        twice(
+            theta,
+            prec,
+            |t, wp| self.derivative_at(&d, t, wp),
+            |t, wp| self.derivative_at(&d, t, wp),
+        )
+    }
+
+    /// `d/dθ` of the logarithm at `wp` bits, from the derivative `d`.
+    fn derivative_at<C: ComplexField>(&self, d: &Expr, theta: &C, wp: u32) -> Result<C> {
         let env = self.params.bindings(wp, theta, self.scale)?;
-        let v: C = self.expr.eval(&env, wp).map_err(|e| match e {
+        let dv: C = d.eval(&env, wp).map_err(|e| self.at_pole(e, theta))?;
+        if self.is_log {
+            return Ok(dv);
+        }
+        let v: C = self
+            .expr
+            .eval(&env, wp)
+            .map_err(|e| self.at_pole(e, theta))?;
+        if v.is_zero() {
+            return Err(self.vanishes(theta));
+        }
+        Ok(dv / &v)
+    }
+
+    fn at_pole<C: ComplexField>(&self, e: Error, theta: &C) -> Error {
+        match e {
             Error::Expression { message, .. } if message.contains("division by zero") => {
                 Error::Domain {
                     function: "expression piece",
@@ -272,22 +375,59 @@ impl ExpressionPiece {
                 }
             }
             other => other,
-        })?;
+        }
+    }
+
+    fn vanishes<C: ComplexField>(&self, theta: &C) -> Error {
+        Error::Domain {
+            function: "expression piece",
+            message: format!(
+                "`{}` vanishes at θ = {}; its logarithm is singular there",
+                self.expr,
+                theta.to_decimal(17)
+            ),
+        }
+    }
+
+    fn eval_at<C: ComplexField>(&self, theta: &C, wp: u32) -> Result<C> {
+        let env = self.params.bindings(wp, theta, self.scale)?;
+        let v: C = self
+            .expr
+            .eval(&env, wp)
+            .map_err(|e| self.at_pole(e, theta))?;
         if self.is_log {
             return Ok(v);
         }
         if v.is_zero() {
-            return Err(Error::Domain {
-                function: "expression piece",
-                message: format!(
-                    "`{}` vanishes at θ = {}; its logarithm is singular there",
-                    self.expr,
-                    theta.to_decimal(17)
-                ),
-            });
+            return Err(self.vanishes(theta));
         }
         Ok(v.ln())
     }
+}
+
+/// A piece's quantity at the working precision (`lo`) and again 32 bits
+/// higher (`hi`, on MPFR); their difference, doubled, plus a rounding
+/// allowance is the error estimate, so cancellation inside the formula shows
+/// up in the radius.
+fn twice<C: ComplexField>(
+    theta: &C,
+    prec: Prec,
+    lo: impl FnOnce(&C, u32) -> Result<C>,
+    hi: impl FnOnce(&Complex, u32) -> Result<Complex>,
+) -> Result<Approx<C>> {
+    let p = prec.bits().min(C::MAX_PREC.unwrap_or(u32::MAX));
+    let wp = match C::MAX_PREC {
+        Some(m) => m,
+        None => prec.bits() + 16,
+    };
+    let lo_v: C = lo(theta, wp)?;
+    let theta_hi = to_rug(theta, wp + 32);
+    let hi_v: Complex = hi(&theta_hi, wp + 32)?;
+    let lo_c = to_rug(&lo_v, wp + 32);
+    let diff = Complex::with_val(wp + 32, &hi_v - &lo_c);
+    let mut radius = Radius::from_log2(diff.log2_abs()).times(2.0);
+    radius += Radius::from_log2(lo_v.log2_abs() - p as f64 + 1.0);
+    Ok(Approx::new(lo_v, radius, p))
 }
 
 /// A `rug` value on either path.

@@ -27,10 +27,12 @@ mod factor;
 mod params;
 mod schema;
 mod source;
+mod table;
 
 pub use build::KINDS;
 pub use factor::{ExpressionPiece, Factor, LogSum, Piece, PieceReport};
 pub use params::{Parameters, RESERVED};
+pub use table::TableRow;
 
 use crate::error::{Error, Result};
 use crate::expr::Expr;
@@ -286,10 +288,7 @@ impl Model {
         let f = self.factor(factor)?;
         let sum = f.log_sum(theta, prec, method)?;
         let target = Complex64::new(theta.re_f64(), theta.im_f64());
-        let eval = |t: Complex64| {
-            f.log_sum::<Complex64>(&t, Prec::DOUBLE, Method::Auto)
-                .map(|s| s.log.value)
-        };
+        let eval = |t: Complex64| f.branch_sample(t);
         let im = branch::continue_phase(&eval, self.base_f64, f.base_phase, target)?;
         Ok(self.finish(theta, sum, im))
     }
@@ -320,10 +319,7 @@ impl Model {
         let points: Vec<C> = (0..n)
             .map(|j| from.with_prec(wp) + &step.clone().mul_i64(j as i64))
             .collect();
-        let eval = |t: Complex64| {
-            f.log_sum::<Complex64>(&t, Prec::DOUBLE, Method::Auto)
-                .map(|s| s.log.value)
-        };
+        let eval = |t: Complex64| f.branch_sample(t);
         let sums: Vec<Result<LogSum<C>>> = points
             .par_iter()
             .map(|t| f.log_sum(t, prec, method))

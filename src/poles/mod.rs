@@ -318,10 +318,7 @@ pub fn count_in_rectangle(
         });
     }
     let f = model.factor(factor)?;
-    let eval = |t: Complex64| {
-        f.log_sum::<Complex64>(&t, Prec::DOUBLE, Method::Auto)
-            .map(|s| s.log.value)
-    };
+    let eval = |t: Complex64| f.branch_sample(t);
     let corners = [
         Complex64::new(re.0, im.0),
         Complex64::new(re.1, im.0),
@@ -330,6 +327,7 @@ pub fn count_in_rectangle(
     ];
     let mut phase = eval(corners[0])
         .map_err(|e| boundary_error(corners[0], e))?
+        .0
         .im;
     let start = phase;
     for k in 0..4 {

@@ -29,6 +29,7 @@ pub use constants::{euler_gamma, glaisher, zeta_prime_minus_one};
 pub use hurwitz::hurwitz_zeta;
 pub use loggamma::{gamma, log_gamma, rgamma};
 pub use polygamma::{digamma, polygamma};
+pub(crate) use polygamma::{digamma_f64_absolute, trigamma_bound, trigamma_bound_log2};
 
 use crate::error::{Error, Result};
 use crate::num::{ComplexField, RealField};

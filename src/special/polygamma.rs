@@ -24,11 +24,91 @@ use crate::num::tables::{constant as k, TableKind};
 use crate::num::{ComplexField, RealField};
 use crate::precision::{Approx, Prec, Radius};
 use crate::special::with_even_bernoulli;
+use num_complex::Complex64;
 use rug::{Integer, Rational};
 
 /// The largest order accepted: beyond it the factorials and cot-derivative
 /// polynomials grow past what the error model is tested for.
 pub const MAX_ORDER: u32 = 200;
+
+/// Terms of the ψ series on the double path (|w| ≥ 8 after the shift:
+/// the 11th term is below 2·10⁻¹⁸ there).
+const DOUBLE_TERMS: usize = 10;
+
+/// ψ(z) on the double path for `Im z ≥ 0`, specialised to `f64` like
+/// log Γ's double kernel: the shift to `|w| ≥ 8` (DLMF 5.15.5 with n = 0),
+/// DLMF 5.11.2 with `DOUBLE_TERMS` terms, and for `Re z < −8` the reflection
+/// `ψ(z) = ψ(1 − z) − π cot πz` (DLMF 5.5.4) with `cot` reduced by the
+/// nearest integer, or written through `q = e^{2πiz}` for `Im z ≥ 1` so it
+/// neither overflows nor cancels. Returns the value and an estimate of its
+/// absolute error: the first neglected term times `sec^{2N+3}(½ arg w)`
+/// (DLMF 5.11.ii) plus the rounding of the terms summed.
+fn digamma_double(z: Complex64) -> (Complex64, f64) {
+    const EPS: f64 = f64::EPSILON;
+    let pi = std::f64::consts::PI;
+    let (x, y) = (z.re, z.im);
+    if x < reflect_below(53) {
+        let m = x.round();
+        let w = Complex64::new(x - m, y);
+        let cot = if y < 1.0 {
+            let u = w * pi;
+            u.cos() / u.sin()
+        } else {
+            let q = (Complex64::new(0.0, 2.0 * pi) * w).exp();
+            Complex64::new(0.0, -1.0) * (1.0 + q) / (1.0 - q)
+        };
+        // ψ(1 − z) = conj ψ(1 − z̄), and 1 − z̄ has Im ≥ 0.
+        let (other, e) = digamma_double(Complex64::new(1.0 - x, y));
+        let v = other.conj() - cot * pi;
+        let sens = pi * pi * w.norm() * (1.0 + cot * cot).norm();
+        return (v, e + 8.0 * EPS * (pi * cot.norm() + sens));
+    }
+    let r = shift_for(&z, asymptotic_radius(53));
+    let mut sum = Complex64::new(0.0, 0.0);
+    let mut mag = 0.0;
+    for kk in 0..r {
+        let t = Complex64::new(1.0, 0.0) / Complex64::new(x + kk as f64, y);
+        mag += t.norm();
+        sum += t;
+    }
+    let w = Complex64::new(x + r as f64, y);
+    let inv_w = Complex64::new(1.0, 0.0) / w;
+    let inv_w2 = inv_w * inv_w;
+    let c = digamma_f64();
+    let mut acc = Complex64::new(c[DOUBLE_TERMS - 1], 0.0);
+    for ck in c[..DOUBLE_TERMS - 1].iter().rev() {
+        acc = acc * inv_w2 + ck;
+    }
+    let series = acc * inv_w2;
+    let abs_w = w.norm();
+    let ln_w = Complex64::new(abs_w.ln(), w.im.atan2(w.re));
+    let v = ln_w - inv_w * 0.5 - series - sum;
+    let sec2 = 2.0 * abs_w / (abs_w + w.re);
+    let nt = DOUBLE_TERMS as i32 + 1;
+    let trunc = c[DOUBLE_TERMS].abs() * abs_w.powi(-2 * nt) * sec2.powf(nt as f64 + 0.5);
+    let rounding = EPS * (ln_w.norm() + inv_w.norm() + mag) * (4.0 + 0.5 * r as f64);
+    (v, trunc + rounding)
+}
+
+/// ψ(z) at double precision with an estimate of its *absolute* error, for
+/// sums of many ψ values (kernels of products), where a term's relative
+/// accuracy near a zero of ψ does not matter: no recomputation on MPFR.
+/// `None` at a pole or where the value leaves the double range.
+pub(crate) fn digamma_f64_absolute(z: Complex64) -> Option<(Complex64, f64)> {
+    if z.im == 0.0 && z.re <= 0.0 && z.re == z.re.round() {
+        return None;
+    }
+    let (v, e) = digamma_double(Complex64::new(z.re, z.im.abs()));
+    let v = if z.im < 0.0 { v.conj() } else { v };
+    (v.re.is_finite() && v.im.is_finite()).then_some((v, e + f64::EPSILON * v.norm()))
+}
+
+/// `B_{2k}/(2k)` in `f64`, `DOUBLE_TERMS + 1` of them (the last bounds the
+/// remainder).
+fn digamma_f64() -> &'static [f64] {
+    static T: std::sync::OnceLock<Vec<f64>> = std::sync::OnceLock::new();
+    T.get_or_init(|| build_digamma_coeffs::<f64>(53, DOUBLE_TERMS + 1))
+}
 
 /// `B_{2k}/(2k)` for k = 1, 2, … (entry k−1), the ψ series (DLMF 5.11.2).
 fn build_digamma_coeffs<R: RealField>(prec: u32, len: usize) -> Vec<R> {
@@ -78,6 +158,19 @@ pub fn polygamma<C: ComplexField>(n: u32, z: &C, prec: Prec) -> Result<Approx<C>
             order: n + 1,
             at: show(z),
         });
+    }
+    if n == 0 && C::MAX_PREC.is_some() {
+        let lower = z.im_f64() < 0.0;
+        let (v, e) = digamma_double(Complex64::new(z.re_f64(), z.im_f64().abs()));
+        let v = if lower { v.conj() } else { v };
+        if v.re.is_finite() && v.im.is_finite() {
+            let r = Approx::new(
+                C::from_f64(v.re, v.im, 53),
+                Radius::from_f64(e + f64::EPSILON * v.norm()),
+                53,
+            );
+            return super::refine_double(r, z, |zm, p| polygamma(0, zm, p));
+        }
     }
     // Factorials and powers of |z| add to the magnitudes in play.
     let guard = 24 + pole_guard(z) + (log2_factorial(n as f64) / 8.0) as u32;
@@ -335,4 +428,30 @@ fn cot_derivative_by_q<C: ComplexField>(n: u32, w: &C, pi: &C::Real, wp: u32) ->
     }
     let mag = v.log2_abs().max(first + factor.log2_abs());
     (v, mag, (m as usize) * 3 + 10)
+}
+
+/// `log2` of a bound on `|ψ'(w)|`, for error propagation only: for
+/// `Re w = x ≥ ½`, `|ψ'(w)| ≤ |w|^−2 + min(1/x, π/(2|Im w|))` (the series
+/// `ψ'(w) = Σ_k (w + k)^−2`, DLMF 5.15.1, bounded by its first term and an
+/// integral), and the reflection `ψ'(w) = −ψ'(1 − w) + π²/sin²(πw)`
+/// (DLMF 5.15.6) otherwise, with `|ψ'(1 − w)| ≤ π²/2`.
+pub(crate) fn trigamma_bound_log2<C: ComplexField>(w: &C) -> f64 {
+    trigamma_bound(Complex64::new(w.re_f64(), w.im_f64())).log2()
+}
+
+/// The bound of [`trigamma_bound_log2`] itself.
+pub(crate) fn trigamma_bound(w: Complex64) -> f64 {
+    let pi2 = std::f64::consts::PI.powi(2);
+    if w.re >= 0.5 {
+        // |ψ'(w)| ≤ Σ_k |w + k|^−2 ≤ |w|^−2 + ∫_0^∞ dk/((x + k)² + y²).
+        let tail = (1.0 / w.re).min(std::f64::consts::FRAC_PI_2 / w.im.abs());
+        return 1.0 / w.norm_sqr() + tail;
+    }
+    let u = Complex64::new(
+        std::f64::consts::PI * (w.re - w.re.round()),
+        std::f64::consts::PI * w.im,
+    );
+    // |sin u|² = sin²(Re u) + sinh²(Im u)
+    let sin2 = (u.re.sin().powi(2) + u.im.sinh().powi(2)).max(1e-300);
+    pi2 / 2.0 + pi2 / sin2
 }

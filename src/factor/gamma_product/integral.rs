@@ -385,7 +385,12 @@ impl GammaProduct {
             };
             node_value(&d, &x, &y, t.prec())
         };
-        let r = default_rule().integrate(f, &Domain::HalfLineExpDecay(Float::new(wp)), prec);
+        // log F is wanted to an absolute accuracy (it is the relative
+        // accuracy of F), so a value that vanishes — log F(0) = 0 for a
+        // unitary product, where the integrand is identically 0 — is not
+        // chased to a relative accuracy it cannot have.
+        let rule = default_rule().with_abs_tol(Radius::from_log2(-(prec.bits() as f64) - 8.0));
+        let r = rule.integrate(f, &Domain::HalfLineExpDecay(Float::new(wp)), prec);
         let fresh = fresh.into_inner();
         if !fresh.is_empty() {
             let mut map = self.nodes.mp.write().expect("poisoned");

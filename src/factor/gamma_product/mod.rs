@@ -33,6 +33,7 @@
 mod analysis;
 mod batch;
 mod cost;
+mod derivative;
 mod integral;
 mod product;
 mod trapezoid;
@@ -100,6 +101,19 @@ impl Scale {
                 -(theta.clone().mul_i()).mul_real(&(C::Real::from_f64(0.5, p) / &pi))
             }
         }
+    }
+
+    /// `dz/dθ`, a constant (1, `1/(iπ)` or `1/(2πi)`) at `wp` bits.
+    ///
+    /// ```
+    /// use dressing::factor::Scale;
+    /// use num_complex::Complex64;
+    /// let d: Complex64 = Scale::OverIPi.dz_dtheta(53);
+    /// assert!((d - Complex64::new(0.0, -1.0 / std::f64::consts::PI)).norm() < 1e-16);
+    /// ```
+    pub fn dz_dtheta<C: ComplexField>(self, wp: u32) -> C {
+        // z is linear in θ, so its value at θ = 1 is the derivative.
+        self.z_of(&C::from_i64(1, wp))
     }
 
     /// `Re z` per unit of `Im θ` (the strip in z is a strip in θ).

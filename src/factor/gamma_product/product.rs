@@ -90,24 +90,7 @@ impl GammaProduct {
             }
         }
         if at_pole {
-            return Err(match pole_order {
-                o if o > 0 => Error::Pole {
-                    function: "gamma product",
-                    order: o as u32,
-                    at: "this rapidity".into(),
-                },
-                o if o < 0 => Error::Zero {
-                    function: "gamma product",
-                    order: (-o) as u32,
-                    at: "this rapidity".into(),
-                },
-                _ => Error::Domain {
-                    function: "gamma product",
-                    message: "poles of numerator and denominator gammas cancel here (a removable \
-                              point); evaluate at a nearby rapidity"
-                        .into(),
-                },
-            });
+            return Err(singular(pole_order));
         }
         Ok((sum.total(), rad))
     }
@@ -130,7 +113,7 @@ impl GammaProduct {
             let (explicit, rad_explicit) = self.explicit(TermSet::Original, z, z0, kk, wp)?;
             let scale = explicit.log2_abs().max(0.0);
             if let Some((tail, tail_err, used)) =
-                self.tail(z, z0, kk, 2 * m_terms + 8, target + scale, wp)?
+                self.tail(z, z0, kk, 2 * m_terms + 8, target + scale, wp, false)?
             {
                 break (explicit, rad_explicit, tail, tail_err, used);
             }
@@ -159,6 +142,10 @@ impl GammaProduct {
     /// Σ_{k≥K} by the asymptotic expansion `Σ_{m≥3} C_m ζ(m−1, K)`, summed
     /// until a term falls below `2^target` (that term, doubled, is the error
     /// estimate); `None` if no term up to `m_cap` does.
+    ///
+    /// With `derivative` it is `d/dz` of the same tail, term by term:
+    /// `dg_m/dz = [t^{m−1}] Σ_j n_j (s_j/a) e^{c_j t/a} β(t)` (docs/math.md §3a).
+    #[allow(clippy::too_many_arguments)]
     pub(super) fn tail<C: ComplexField>(
         &self,
         z: &C,
@@ -167,6 +154,7 @@ impl GammaProduct {
         m_cap: usize,
         target: f64,
         wp: u32,
+        derivative: bool,
     ) -> Result<Option<(C, Radius, usize)>> {
         let coeffs = self.coeffs_at(wp);
         // Tables are cached per length rounded up to a multiple of 16.
@@ -177,43 +165,64 @@ impl GammaProduct {
         // Per step group the generating function
         // G_a(t) = Σ_j n_j (e^{c_j t/a} − e^{c_j⁰ t/a}) · t/(e^{t/a} − 1)
         // has [t^m] = Σ_j n_j a^{1−m} (B_m(c_j) − B_m(c_j⁰)) / m!.
-        let mut g = vec![czero.clone(); mm + 1];
-        let mut s_coef = vec![czero.clone(); mm + 1];
-        for group in &tables.groups {
-            // s(t) = Σ_j n_j e^{c_j t / a}: coefficients (c/a)^m / m!
-            for slot in s_coef.iter_mut() {
-                *slot = czero.clone();
-            }
+        // s(t) = Σ_j n_j e^{c_j t / a} per group, coefficients Σ n (c/a)^m / m!,
+        // extended one order at a time: only as far as the series is summed.
+        // Per term: (group, current coefficient e_m, ratio c/a).
+        let mut states: Vec<(usize, C, C)> = Vec::new();
+        for (gi, group) in tables.groups.iter().enumerate() {
             for &j in &group.members {
                 let n = self.terms[j].power;
                 let (_, b, s) = &coeffs[j];
                 let (b, s) = (C::Real::from_float(b), C::Real::from_float(s));
+                // z₀ is a constant: no part in the derivative.
+                let z0 = if derivative { None } else { z0 };
                 for (arg_z, sign) in [(Some(z), 1i64), (z0, -1i64)] {
                     let Some(zz) = arg_z else { continue };
                     let ratio = zz.clone().mul_real(&s).add_real(&b).mul_real(&group.inv_a);
                     let mut e = C::from_i64(n * sign, wp);
-                    for (m, slot) in s_coef.iter_mut().enumerate() {
-                        if m > 0 {
-                            e = (e * &ratio).div_i64(m as i64);
-                        }
-                        *slot += &e;
+                    if derivative {
+                        e = e.mul_real(&(s.clone() * &group.inv_a));
                     }
-                }
-            }
-            // g += s * β, β(t) = a · (t/a)/(e^{t/a} − 1)
-            for (m, gm) in g.iter_mut().enumerate() {
-                for i in 0..=m {
-                    *gm += &s_coef[m - i].clone().mul_real(&group.beta[i]);
+                    states.push((gi, e, ratio));
                 }
             }
         }
+        let mut s_coefs: Vec<Vec<C>> = vec![Vec::with_capacity(mm + 1); tables.groups.len()];
+        let mut g: Vec<C> = Vec::with_capacity(mm + 1);
+        // g_m = [t^m] Σ_groups s(t)·β(t), β(t) = a · (t/a)/(e^{t/a} − 1).
+        let mut extend_to = |m_max: usize, g: &mut Vec<C>| {
+            while g.len() <= m_max {
+                let m = g.len();
+                for sc in s_coefs.iter_mut() {
+                    sc.push(czero.clone());
+                }
+                for (gi, e, ratio) in states.iter_mut() {
+                    if m > 0 {
+                        *e = (e.clone() * &*ratio).div_i64(m as i64);
+                    }
+                    s_coefs[*gi][m] += &*e;
+                }
+                let mut gm = czero.clone();
+                for (group, sc) in tables.groups.iter().zip(&s_coefs) {
+                    for i in 0..=m {
+                        gm += &sc[m - i].clone().mul_real(&group.beta[i]);
+                    }
+                }
+                g.push(gm);
+            }
+        };
         // C_m ζ(m−1, K) = (−1)^m (m−2)! ζ(m−1, K) g_m ;  tail = Σ_{m≥3} of these.
-        let term_at = |m: usize| -> C { g[m].clone().mul_real(&tables.weight[m]) };
+        let mut term_at = |m: usize| -> C {
+            let idx = if derivative { m - 1 } else { m };
+            extend_to(idx, &mut g);
+            g[idx].clone().mul_real(&tables.weight[m])
+        };
         let mut sum = C::from_reals(zero.clone(), zero.clone());
         let mut m = 3usize;
+        let mut next = term_at(m);
         while m < mm {
-            let term = term_at(m);
-            let next = term_at(m + 1);
+            let term = next;
+            next = term_at(m + 1);
             // Stop only when two consecutive terms are small: for crossing-
             // symmetric products every odd (or even) C_m vanishes, and one
             // zero term says nothing about the rest of the series.
@@ -435,6 +444,29 @@ impl<C: ComplexField> Accumulator<C> {
         } else {
             self.sum
         }
+    }
+}
+
+/// The error at a point where the gammas' pole orders sum to `order`
+/// (negative: a zero; zero: a removable point).
+pub(super) fn singular(order: i64) -> Error {
+    match order {
+        o if o > 0 => Error::Pole {
+            function: "gamma product",
+            order: o as u32,
+            at: "this rapidity".into(),
+        },
+        o if o < 0 => Error::Zero {
+            function: "gamma product",
+            order: (-o) as u32,
+            at: "this rapidity".into(),
+        },
+        _ => Error::Domain {
+            function: "gamma product",
+            message: "poles of numerator and denominator gammas cancel here (a removable \
+                      point); evaluate at a nearby rapidity"
+                .into(),
+        },
     }
 }
 

@@ -8,7 +8,7 @@ use crate::error::{Error, Result};
 use crate::factor::{Coef, Scale};
 use crate::num::{ComplexField, RealField};
 use crate::precision::{Approx, Prec, Radius};
-use crate::special::{check_arg, log_barnes_g, log_gamma};
+use crate::special::{check_arg, digamma, log_barnes_g, log_gamma, trigamma_bound_log2};
 use num_complex::Complex64;
 use rug::Float;
 use std::collections::HashMap;
@@ -45,12 +45,29 @@ impl Kind {
             Kind::Barnes => "BarnesFactor::new",
         }
     }
+    fn derivative_name(self) -> &'static str {
+        match self {
+            Kind::Gamma => "FiniteGamma::log_derivative",
+            Kind::Barnes => "BarnesFactor::log_derivative",
+        }
+    }
     fn log_name(self) -> &'static str {
         match self {
             Kind::Gamma => "FiniteGamma::log_value",
             Kind::Barnes => "BarnesFactor::log_value",
         }
     }
+}
+
+/// One argument `w = b + s z` of an affine product at a point.
+struct Arg<C: ComplexField> {
+    w: C,
+    n: i64,
+    slope: C::Real,
+    /// log2 of the size of the terms w was summed from.
+    size_l2: f64,
+    /// log2 of the distance to the nearest non-positive integer.
+    dist_l2: f64,
 }
 
 /// (offset, slope) of every term at one working precision.
@@ -168,23 +185,16 @@ impl Affine {
         refine(prec, theta, |wp, tol_wp| self.eval(theta, prec, wp, tol_wp))
     }
 
-    /// One evaluation at `wp` bits; singular points detected at `tol_wp`.
-    fn eval<C: ComplexField>(
-        &self,
-        theta: &C,
-        prec: Prec,
-        wp: u32,
-        tol_wp: u32,
-    ) -> Result<(C, Radius)> {
-        let double = C::MAX_PREC.is_some();
+    /// The arguments `w_j = b_j + s_j z` at `wp` bits with their powers
+    /// and sizes; the singular-point error if some `w_j` is within the
+    /// resolution of `tol_wp` bits of a pole or zero.
+    fn arguments<C: ComplexField>(&self, theta: &C, wp: u32, tol_wp: u32) -> Result<Vec<Arg<C>>> {
         let th = theta.with_prec(wp);
         let z = self.scale.z_of(&th);
         let coeffs = self.coeffs_at(wp);
         let mut order = 0i64;
         let mut at_singular = false;
-        // (w, power, log2 of the size of the terms w was summed from, log2 of
-        // the distance to the nearest non-positive integer)
-        let mut args: Vec<(C, i64, f64, f64)> = Vec::with_capacity(self.terms.len());
+        let mut args = Vec::with_capacity(self.terms.len());
         for ((_, _, n), (b, s)) in self.terms.iter().zip(coeffs.iter()) {
             let (b, s) = (C::Real::from_float(b), C::Real::from_float(s));
             let sz = z.clone().mul_real(&s);
@@ -206,20 +216,50 @@ impl Affine {
                     continue;
                 }
             }
-            args.push((w, *n, size_l2, dist_l2));
+            args.push(Arg {
+                w,
+                n: *n,
+                slope: s,
+                size_l2,
+                dist_l2,
+            });
         }
         if at_singular {
             return Err(singular(self.kind.name(), order, at_theta(theta)));
         }
-        let inner = if double {
-            prec
+        Ok(args)
+    }
+
+    /// The precision of the special-function calls at `wp` bits.
+    fn inner(prec: Prec, wp: u32, double: bool) -> Result<Prec> {
+        if double {
+            Ok(prec)
         } else {
-            Prec::from_bits(wp.min(Prec::MAX_BITS) as u64)?
-        };
+            Prec::from_bits(wp.min(Prec::MAX_BITS) as u64)
+        }
+    }
+
+    /// One evaluation at `wp` bits; singular points detected at `tol_wp`.
+    fn eval<C: ComplexField>(
+        &self,
+        theta: &C,
+        prec: Prec,
+        wp: u32,
+        tol_wp: u32,
+    ) -> Result<(C, Radius)> {
+        let args = self.arguments(theta, wp, tol_wp)?;
+        let inner = Self::inner(prec, wp, C::MAX_PREC.is_some())?;
         let mut sum = C::from_i64(0, wp);
         let mut abs_sum = Radius::ZERO;
         let mut rad = Radius::ZERO;
-        for (w, n, size_l2, dist_l2) in &args {
+        for Arg {
+            w,
+            n,
+            size_l2,
+            dist_l2,
+            ..
+        } in &args
+        {
             let l = match self.kind {
                 Kind::Gamma => log_gamma(w, inner),
                 Kind::Barnes => log_barnes_g(w, inner),
@@ -244,6 +284,68 @@ impl Affine {
         // Rounding of the products n·log F and of the sum.
         rad += Radius::from_log2(abs_sum.log2() - wp as f64 + ((args.len() + 2) as f64).log2());
         Ok((sum, rad))
+    }
+
+    fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        check_arg(self.kind.derivative_name(), "theta", theta, prec)?;
+        refine(prec, theta, |wp, tol_wp| {
+            self.derivative(theta, prec, wp, tol_wp)
+        })
+    }
+
+    /// `d/dθ Σ_j n_j log F(w_j) = dz/dθ · Σ_j n_j s_j (log F)'(w_j)` at `wp`
+    /// bits, with `(log Γ)' = ψ` and `(log G)'(w) = (w − 1)ψ(w) − w +
+    /// (1 + ln 2π)/2`.
+    fn derivative<C: ComplexField>(
+        &self,
+        theta: &C,
+        prec: Prec,
+        wp: u32,
+        tol_wp: u32,
+    ) -> Result<(C, Radius)> {
+        let args = self.arguments(theta, wp, tol_wp)?;
+        let inner = Self::inner(prec, wp, C::MAX_PREC.is_some())?;
+        let w_l2 = -(wp as f64);
+        // (1 + ln 2π)/2
+        let c_g = (C::Real::pi(wp).mul_i64(2).ln() + &C::Real::from_f64(1.0, wp)).mul_pow2(-1);
+        let mut sum = C::from_i64(0, wp);
+        let mut abs_sum = Radius::ZERO;
+        let mut rad = Radius::ZERO;
+        for Arg {
+            w,
+            n,
+            slope,
+            size_l2,
+            ..
+        } in &args
+        {
+            let psi = digamma(w, inner).map_err(|e| self.rename(e, theta))?;
+            let trigamma_l2 = trigamma_bound_log2(w);
+            let (d, d_rad, d_prime_l2) = match self.kind {
+                Kind::Gamma => (psi.value, psi.radius, trigamma_l2),
+                Kind::Barnes => {
+                    let w_m1 = w.clone().add_i64(-1);
+                    let wm1_l2 = w_m1.log2_abs();
+                    let prod = w_m1 * &psi.value;
+                    let r = psi.radius.scale_log2(wm1_l2)
+                        + Radius::from_log2(log2_add(prod.log2_abs(), w.log2_abs()) + 2.0 + w_l2);
+                    let d = prod - w + &C::from_reals(c_g.clone(), C::Real::from_f64(0.0, wp));
+                    // (log G)'' = ψ + (w − 1)ψ' − 1
+                    let dp = log2_add(log2_add(psi.value.log2_abs(), wm1_l2 + trigamma_l2), 0.0);
+                    (d, r, dp)
+                }
+            };
+            let ns = slope.clone().mul_i64(*n);
+            let ns_l2 = ns.log2_abs();
+            rad += d_rad.scale_log2(ns_l2);
+            rad += Radius::from_log2(size_l2 + 2.6 + w_l2 + d_prime_l2 + ns_l2);
+            let t = d.mul_real(&ns);
+            abs_sum += Radius::from_log2(t.log2_abs());
+            sum += &t;
+        }
+        rad += Radius::from_log2(abs_sum.log2() + w_l2 + ((args.len() + 2) as f64).log2());
+        let dz: C = self.scale.dz_dtheta(wp);
+        Ok((sum * &dz, rad.scale_log2(dz.log2_abs())))
     }
 
     fn rename<C: ComplexField>(&self, e: Error, theta: &C) -> Error {
@@ -384,6 +486,28 @@ impl FiniteGamma {
         self.0.log_value(theta, prec)
     }
 
+    /// `d/dθ Σ_j n_j log Γ(w_j) = dz/dθ · Σ_j n_j s_j ψ(w_j)` at `prec`, with
+    /// an estimate of its absolute error (the ψ radii, the rounding of each
+    /// `w_j` through a bound on ψ', the rounding of the sum).
+    ///
+    /// Errors: as [`FiniteGamma::log_value`] (the derivative of the
+    /// logarithm has a simple pole at every pole or zero of the product).
+    ///
+    /// ```
+    /// use dressing::factor::{Coef, FiniteGamma, Scale};
+    /// use dressing::{special::digamma, Prec};
+    /// use num_complex::Complex64;
+    /// // d/dθ log Γ(1 − 2θ) = −2ψ(1 − 2θ)
+    /// let g = FiniteGamma::new(vec![(Coef::integer(1), Coef::integer(-2), 1)], Scale::Unit).unwrap();
+    /// let th = Complex64::new(0.3, 0.4);
+    /// let d = g.log_derivative(&th, Prec::DOUBLE).unwrap();
+    /// let want = -2.0 * digamma(&(1.0 - 2.0 * th), Prec::DOUBLE).unwrap().value;
+    /// assert!((d.value - want).norm() <= d.radius.to_f64() + 1e-15);
+    /// ```
+    pub fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        self.0.log_derivative(theta, prec)
+    }
+
     /// The product as a formula with the definition of z, for reports.
     ///
     /// ```
@@ -500,6 +624,30 @@ impl BarnesFactor {
     /// ```
     pub fn log_value<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
         self.0.log_value(theta, prec)
+    }
+
+    /// `d/dθ Σ_j n_j log G(w_j) = dz/dθ · Σ_j n_j s_j [(w_j − 1)ψ(w_j) − w_j +
+    /// (1 + ln 2π)/2]` at `prec` (DLMF 5.17.4 differentiated), with an
+    /// estimate of its absolute error.
+    ///
+    /// Errors: as [`BarnesFactor::log_value`].
+    ///
+    /// ```
+    /// use dressing::factor::{BarnesFactor, Coef, Scale};
+    /// use dressing::{special::digamma, Prec};
+    /// use num_complex::Complex64;
+    /// // G(1 + z)/G(z) = Γ(z), so the derivative is ψ(z) (DLMF 5.17.1)
+    /// let f = BarnesFactor::new(
+    ///     vec![(Coef::integer(1), Coef::integer(1), 1), (Coef::integer(0), Coef::integer(1), -1)],
+    ///     Scale::Unit,
+    /// ).unwrap();
+    /// let z = Complex64::new(0.7, 2.5);
+    /// let d = f.log_derivative(&z, Prec::DOUBLE).unwrap();
+    /// let want = digamma(&z, Prec::DOUBLE).unwrap().value;
+    /// assert!((d.value - want).norm() <= d.radius.to_f64() + 1e-14);
+    /// ```
+    pub fn log_derivative<C: ComplexField>(&self, theta: &C, prec: Prec) -> Result<Approx<C>> {
+        self.0.log_derivative(theta, prec)
     }
 
     /// The product as a formula with the definition of z, for reports.

@@ -1,6 +1,6 @@
-//! The outputs pasted in docs/guide.md are the program's: every ```text
+//! The outputs pasted in docs/guide.md and README.md are the program's: every ```text
 //! block that starts with `$ dressing …` is rerun here and compared line
-//! by line, so the guide cannot drift from the program.
+//! by line, so neither can drift from the program.
 
 use std::process::Command;
 
@@ -48,12 +48,12 @@ pub fn blocks(text: &str) -> Vec<(String, String)> {
     out
 }
 
-#[test]
-fn guide_outputs_match_the_program() {
+/// Reruns every block of `file` (relative to the crate root) and compares.
+fn check_file(file: &str, at_least: usize) {
     let root = env!("CARGO_MANIFEST_DIR");
-    let text = std::fs::read_to_string(format!("{root}/docs/guide.md")).unwrap();
+    let text = std::fs::read_to_string(format!("{root}/{file}")).unwrap();
     let runs = blocks(&text);
-    assert!(runs.len() >= 4, "{}", runs.len());
+    assert!(runs.len() >= at_least, "{file}: {} blocks", runs.len());
     for (cmd, want) in runs {
         let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
             .args(words(&cmd))
@@ -69,10 +69,23 @@ fn guide_outputs_match_the_program() {
                 .position(|(a, b)| a != b)
                 .unwrap_or(0);
             panic!(
-                "`dressing {cmd}` no longer prints what docs/guide.md shows (first difference at \
-                 line {}):\n--- program ---\n{got}\n--- guide ---\n{want}",
+                "`dressing {cmd}` no longer prints what {file} shows (first difference at line \
+                 {}):\n--- program ---\n{got}\n--- {file} ---\n{want}\nRun `python3 \
+                 scripts/update_docs_outputs.py {file}` after `cargo build --release`, read the \
+                 diff and commit it.",
                 first + 1
             );
         }
     }
+}
+
+#[test]
+fn guide_outputs_match_the_program() {
+    check_file("docs/guide.md", 4);
+}
+
+/// The README's tour: eval, check, poles, cdd and table.
+#[test]
+fn readme_tour_outputs_match_the_program() {
+    check_file("README.md", 5);
 }

@@ -224,3 +224,43 @@ fn bad_table_input_names_the_option() {
         assert!(err.contains(want), "{args:?}: {err}");
     }
 }
+
+/// examples/tba_kernel.rs solves the ground-state TBA equation on the
+/// kernel that `Model::tabulate` returns; for Lee–Yang (S = f_{2/3}) the
+/// effective central charge tends to 2/5 as r → 0 (Al. B. Zamolodchikov,
+/// Nucl. Phys. B342 (1990) 695). `cargo test` builds the examples next to
+/// the test binaries; this runs it and reads its output.
+#[test]
+fn tba_example_reaches_the_lee_yang_central_charge() {
+    let exe = std::env::current_exe().unwrap();
+    let bin = exe
+        .parent()
+        .and_then(|d| d.parent())
+        .map(|d| d.join("examples").join("tba_kernel"))
+        .unwrap();
+    let out = Command::new(&bin)
+        .output()
+        .unwrap_or_else(|e| panic!("run {}: {e} (build it with cargo test)", bin.display()));
+    assert!(out.status.success());
+    let text = String::from_utf8_lossy(&out.stdout);
+    let c = |r: &str| -> f64 {
+        let line = text
+            .lines()
+            .find(|l| l.starts_with("Lee–Yang") && l.contains(&format!("r = {r} ")))
+            .unwrap_or_else(|| panic!("no line for r = {r}:\n{text}"));
+        line.split("c(r) = ")
+            .nth(1)
+            .unwrap()
+            .split_whitespace()
+            .next()
+            .unwrap()
+            .parse()
+            .unwrap()
+    };
+    assert!((c("1e-5") - 0.4).abs() < 1e-8, "{text}");
+    // The approach is from below and monotone in r.
+    assert!(
+        c("1e0") < c("1e-1") && c("1e-1") < c("1e-3") && c("1e-3") <= 0.4 + 1e-12,
+        "{text}"
+    );
+}

@@ -1,5 +1,7 @@
 //! The command line, run as a user would: output and exit status.
 
+mod common;
+
 use std::process::Command;
 
 fn dressing(args: &[&str]) -> (i32, String, String) {
@@ -351,4 +353,36 @@ fn poles_scan_and_region() {
     let (code, out, _) = dressing(&["poles", &m, "--region=-1:1,0.1:3"]);
     assert_eq!(code, 0);
     assert!(out.contains("zeros − poles ="), "{out}");
+}
+
+/// Every subcommand's `--help` carries an example, and the example runs
+/// (from a scratch folder, so `plot` writes its picture there).
+#[test]
+fn every_subcommand_help_has_an_example_that_runs() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let scratch = std::env::temp_dir().join(format!("dressing-help-{}", std::process::id()));
+    std::fs::create_dir_all(&scratch).unwrap();
+    for sub in [
+        "demo", "special", "eval", "check", "cdd", "poles", "plot", "table",
+    ] {
+        let (code, help, _) = dressing(&[sub, "--help"]);
+        assert_eq!(code, 0);
+        let line = help
+            .lines()
+            .find_map(|l| l.trim().strip_prefix("Example: dressing "))
+            .unwrap_or_else(|| panic!("`dressing {sub} --help` has no example:\n{help}"))
+            .replace("examples/", &format!("{root}/examples/"));
+        let args = common::shell_words(&line);
+        let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
+            .args(&args)
+            .current_dir(&scratch)
+            .output()
+            .unwrap();
+        assert!(
+            out.status.success(),
+            "the example of `{sub}` fails: {line}\n{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+    }
+    let _ = std::fs::remove_dir_all(&scratch);
 }

@@ -2,29 +2,9 @@
 //! block that starts with `$ dressing …` is rerun here and compared line
 //! by line, so neither can drift from the program.
 
-use std::process::Command;
+mod common;
 
-/// Splits a command line on spaces, keeping "double-quoted" words whole.
-fn words(line: &str) -> Vec<String> {
-    let mut out = Vec::new();
-    let mut cur = String::new();
-    let mut quoted = false;
-    for ch in line.chars() {
-        match ch {
-            '"' => quoted = !quoted,
-            ' ' if !quoted => {
-                if !cur.is_empty() {
-                    out.push(std::mem::take(&mut cur));
-                }
-            }
-            c => cur.push(c),
-        }
-    }
-    if !cur.is_empty() {
-        out.push(cur);
-    }
-    out
-}
+use std::process::Command;
 
 /// (command, expected output) for every runnable block of a markdown file.
 pub fn blocks(text: &str) -> Vec<(String, String)> {
@@ -56,7 +36,7 @@ fn check_file(file: &str, at_least: usize) {
     assert!(runs.len() >= at_least, "{file}: {} blocks", runs.len());
     for (cmd, want) in runs {
         let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
-            .args(words(&cmd))
+            .args(common::shell_words(&cmd))
             .current_dir(root)
             .output()
             .unwrap();

@@ -436,3 +436,35 @@ gammas = [
     }
     assert!(outside >= 4);
 }
+
+/// Far out on the real line the quadrature cannot resolve the oscillation
+/// and the product form would need more factors than its cap; `Auto` tries
+/// both and names both failures instead of a quadrature message alone.
+#[test]
+fn a_rapidity_beyond_both_representations_says_so() {
+    let m = lantern();
+    let e = m
+        .evaluate(
+            "sigma",
+            &num_complex::Complex64::new(1e6, 0.0),
+            Prec::DOUBLE,
+            Method::Auto,
+        )
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("neither representation"), "{e}");
+    assert!(
+        e.contains("integral form") && e.contains("product form"),
+        "{e}"
+    );
+    assert!(e.contains("evaluate nearer the origin"), "{e}");
+    // Nearer, Auto still succeeds (the product form, 100 factors).
+    assert!(m
+        .evaluate(
+            "sigma",
+            &num_complex::Complex64::new(300.0, 0.0),
+            Prec::DOUBLE,
+            Method::Auto
+        )
+        .is_ok());
+}

@@ -64,3 +64,19 @@ pub fn rel_err_f64(got: Complex64, want: &Complex, floor: f64) -> f64 {
 pub fn bits(digits: u32) -> u32 {
     (digits as f64 * std::f64::consts::LOG2_10).ceil() as u32
 }
+
+/// Splits a command line on spaces, keeping "double-quoted" words whole
+/// (the commands pasted in the docs and in `--help` examples).
+pub fn shell_words(line: &str) -> Vec<String> {
+    let mut out = vec![String::new()];
+    let mut quoted = false;
+    for ch in line.chars() {
+        match ch {
+            '"' => quoted = !quoted,
+            ' ' if !quoted => out.push(String::new()),
+            c => out.last_mut().expect("never empty").push(c),
+        }
+    }
+    out.retain(|w| !w.is_empty());
+    out
+}

@@ -468,11 +468,11 @@ impl GammaProduct {
         crate::special::check_arg("GammaProduct::log_value", "theta", theta, prec)?;
         let wp = working_bits::<C>(prec);
         let (z, z0) = self.z_and_z0(theta, wp);
-        let method = match method {
+        let chosen = match method {
             Method::Auto => self.plan_z(&z, z0.as_ref(), prec).method,
             m => m,
         };
-        let r = match method {
+        let run = |m: Method| match m {
             Method::Integral => {
                 self.kernel()?;
                 if C::MAX_PREC.is_some() {
@@ -483,7 +483,42 @@ impl GammaProduct {
             }
             _ => self.product_form(&z, z0.as_ref(), wp, prec),
         };
+        let r = match (run(chosen), method) {
+            // Auto falls back on the other representation where the chosen
+            // one cannot deliver (far out, the quadrature's oscillation or
+            // the product's factor cap), and says so if both fail.
+            (Err(first @ (Error::NoConvergence { .. } | Error::Domain { .. })), Method::Auto)
+                if self.integral_available() =>
+            {
+                let other = if chosen == Method::Integral {
+                    Method::Product
+                } else {
+                    Method::Integral
+                };
+                run(other).map_err(|second| Error::Domain {
+                    function: "GammaProduct::log_value",
+                    message: format!(
+                        "neither representation reaches the requested accuracy at θ = {}; \
+                         {} form: {first}; {} form: {second}. The rapidity is too far out \
+                         (|θ| = {:.3e}) for this factor and precision: evaluate nearer the \
+                         origin or use the factor's asymptotics",
+                        theta.to_decimal(17),
+                        method_name(chosen),
+                        method_name(other),
+                        theta.log2_abs().exp2()
+                    ),
+                })
+            }
+            (r, _) => r,
+        };
         r.map_err(|e| name_rapidity(e, theta))
+    }
+}
+
+fn method_name(m: Method) -> &'static str {
+    match m {
+        Method::Integral => "integral",
+        _ => "product",
     }
 }
 

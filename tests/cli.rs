@@ -4,17 +4,7 @@ mod common;
 
 use std::process::Command;
 
-fn dressing(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
-        .args(args)
-        .output()
-        .expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::run_dressing as dressing;
 
 #[test]
 fn demo_runs_end_to_end_and_agrees_with_the_commands() {

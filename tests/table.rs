@@ -3,23 +3,15 @@
 //! bisection continuation of `Model::evaluate`, and integrates the kernel;
 //! the formats parse; poles and bad input are reported.
 
+mod common;
+
 use dressing::factor::Method;
 use dressing::model::Model;
 use dressing::Prec;
 use num_complex::Complex64;
 use std::process::Command;
 
-fn dressing(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_dressing"))
-        .args(args)
-        .output()
-        .expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::run_dressing as dressing;
 
 fn lantern_path() -> String {
     concat!(env!("CARGO_MANIFEST_DIR"), "/examples/lantern.toml").to_string()

@@ -308,17 +308,7 @@ impl Model {
     ) -> Result<Vec<Result<Evaluation<C>>>> {
         use rayon::prelude::*;
         let f = self.factor(factor)?;
-        if n < 2 {
-            return Err(Error::Domain {
-                function: "Model::evaluate_line",
-                message: format!("a line needs at least 2 points, not {n}"),
-            });
-        }
-        let wp = from.prec().max(to.prec());
-        let step = (to.with_prec(wp) - &from.with_prec(wp)).div_i64((n - 1) as i64);
-        let points: Vec<C> = (0..n)
-            .map(|j| from.with_prec(wp) + &step.clone().mul_i64(j as i64))
-            .collect();
+        let points = line_points("Model::evaluate_line", from, to, n)?;
         let eval = |t: Complex64| f.branch_sample(t);
         let sums: Vec<Result<LogSum<C>>> = points
             .par_iter()
@@ -384,4 +374,25 @@ impl Model {
             pieces: sum.pieces,
         }
     }
+}
+
+/// `n ≥ 2` equally spaced points from `from` to `to`, both included, at the
+/// larger of their precisions.
+fn line_points<C: ComplexField>(
+    function: &'static str,
+    from: &C,
+    to: &C,
+    n: usize,
+) -> Result<Vec<C>> {
+    if n < 2 {
+        return Err(Error::Domain {
+            function,
+            message: format!("a line needs at least 2 points, not {n}"),
+        });
+    }
+    let wp = from.prec().max(to.prec());
+    let step = (to.with_prec(wp) - &from.with_prec(wp)).div_i64((n - 1) as i64);
+    Ok((0..n)
+        .map(|j| from.with_prec(wp) + &step.clone().mul_i64(j as i64))
+        .collect())
 }

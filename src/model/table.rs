@@ -70,17 +70,7 @@ impl Model {
         method: Method,
     ) -> Result<Vec<Result<TableRow<C>>>> {
         let f = self.factor(factor)?;
-        if n < 2 {
-            return Err(Error::Domain {
-                function: "Model::tabulate",
-                message: format!("a line needs at least 2 points, not {n}"),
-            });
-        }
-        let wp = from.prec().max(to.prec());
-        let step = (to.with_prec(wp) - &from.with_prec(wp)).div_i64((n - 1) as i64);
-        let points: Vec<C> = (0..n)
-            .map(|j| from.with_prec(wp) + &step.clone().mul_i64(j as i64))
-            .collect();
+        let points = super::line_points("Model::tabulate", from, to, n)?;
         let computed: Vec<Result<(super::LogSum<C>, Approx<C>)>> = points
             .par_iter()
             .map(|t| {

@@ -80,3 +80,16 @@ pub fn shell_words(line: &str) -> Vec<String> {
     out.retain(|w| !w.is_empty());
     out
 }
+
+/// Runs the `dressing` binary: (exit status, stdout, stderr).
+pub fn run_dressing(args: &[&str]) -> (i32, String, String) {
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_dressing"))
+        .args(args)
+        .output()
+        .expect("the binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}

@@ -86,7 +86,7 @@ impl GammaProduct {
         };
         let zs: Vec<Complex64> = thetas.iter().map(|t| self.scale.z_of(t)).collect();
         let ends = [zs[0], zs[n - 1]];
-        let lay = layout(&terms, &ends, 0);
+        let lay = layout(&terms, &ends, 0, false);
         let grid = lay.and_then(|l| self.grid(&terms, l.level, l.nodes).ok());
         let (Some(lay), Some(grid)) = (lay, grid) else {
             return thetas.iter().map(per_point).collect();
@@ -101,7 +101,7 @@ impl GammaProduct {
             .zip(&zs)
             .map(|(t, &z)| {
                 let mut s = Sums::default();
-                fixed_part(&terms, &grid, &lay, z, &mut s);
+                fixed_part(&terms, &grid, &lay, z, &mut s, false);
                 for (c, &sigma) in terms.sigma_classes().iter().enumerate() {
                     class_sum(
                         &grid,
@@ -112,6 +112,7 @@ impl GammaProduct {
                         lay.small + 1,
                         lay.nodes,
                         &mut s,
+                        false,
                     );
                 }
                 let (v, met) = result(&s, &lay, prec);

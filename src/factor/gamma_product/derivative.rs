@@ -46,6 +46,25 @@ impl GammaProduct {
         crate::special::check_arg("GammaProduct::log_derivative", "theta", theta, prec)?;
         let wp = working_bits::<C>(prec);
         let z = self.scale.z_of(&theta.with_prec(wp));
+        let dz: C = self.scale.dz_dtheta(wp);
+        // Double path, even integrand inside its strip: the integral's
+        // uniform grid differentiated under the integral sign (docs/math.md
+        // §4b), a few times cheaper than the ψ sums.
+        if C::MAX_PREC.is_some() && self.kernel.as_ref().is_ok_and(|k| k.even) {
+            let zc = Complex64::new(z.re_f64(), z.im_f64());
+            if let Some(v) = self.trapezoid_point(zc, prec, true)? {
+                let d = Complex64::new(dz.re_f64(), dz.im_f64());
+                let value = v.value * d;
+                if value.re.is_finite() && value.im.is_finite() {
+                    return Ok(Approx::new(
+                        C::from_f64(value.re, value.im, 53),
+                        v.radius.scale_log2(d.norm().log2())
+                            + Radius::from_f64(f64::EPSILON * value.norm()),
+                        53,
+                    ));
+                }
+            }
+        }
         let tf = self.terms_f64();
         let (mut kk, y_max, c_max) = start_k(tf, (z.re_f64(), z.im_f64()), None, wp)?;
         let a_min = tf.iter().map(|c| c.0).fold(f64::INFINITY, f64::min);
@@ -70,7 +89,6 @@ impl GammaProduct {
             }
             kk = kk * 3 / 2 + 1;
         };
-        let dz: C = self.scale.dz_dtheta(wp);
         let sum = explicit + &tail;
         let mag = sum.log2_abs().max(tail.log2_abs());
         let rad = (rad_explicit + tail_err + Radius::from_log2(mag - wp as f64 + 4.0))

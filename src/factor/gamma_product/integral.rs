@@ -302,7 +302,9 @@ impl GammaProduct {
     ) -> Result<FactorValue<C>> {
         let kernel = self.kernel()?;
         if kernel.even {
-            if let Some(v) = self.trapezoid_point(Complex64::new(z.re_f64(), z.im_f64()), prec)? {
+            if let Some(v) =
+                self.trapezoid_point(Complex64::new(z.re_f64(), z.im_f64()), prec, false)?
+            {
                 return Ok(FactorValue {
                     log: upcast::<C, Complex64>(v),
                     representation: Representation::Integral { peeled: 0 },

@@ -110,6 +110,9 @@ pub(super) struct Grid {
     /// `h W₊(t_k)` and `h W₋(t_k)` per slope class.
     wp: Vec<Vec<f64>>,
     wm: Vec<Vec<f64>>,
+    /// `t_k h W±(t_k)`, for the derivative's integrand.
+    twp: Vec<Vec<f64>>,
+    twm: Vec<Vec<f64>>,
     /// `h (W₀(t_k) − normalisation part)`, when present.
     w0: Vec<Complex64>,
     /// `h Γ_l(t_k)` for the nodes with `t_k ≤ SMALL_T`, and `h f_{z₀}(t_k)`.
@@ -335,10 +338,23 @@ impl GammaProduct {
                 poly_z0.push(Complex64::new(v.real().to_f64(), v.imag().to_f64()));
             }
         }
+        let times = |w: &Vec<Vec<f64>>| -> Vec<Vec<f64>> {
+            w.iter()
+                .map(|v| {
+                    v.iter()
+                        .enumerate()
+                        .map(|(i, x)| (i + 1) as f64 * h * x)
+                        .collect()
+                })
+                .collect()
+        };
+        let (twp, twm) = (times(&wp), times(&wm));
         Ok(Grid {
             h,
             wp,
             wm,
+            twp,
+            twm,
             w0,
             poly,
             poly_z0,
@@ -369,7 +385,12 @@ fn reach(terms: &Terms, z: Complex64) -> (f64, f64, f64) {
 
 /// The layout of the rule for the points `zs` together (a common grid), or
 /// `None` where the uniform rule is declined.
-pub(super) fn layout(terms: &Terms, zs: &[Complex64], refine: u32) -> Option<Layout> {
+pub(super) fn layout(
+    terms: &Terms,
+    zs: &[Complex64],
+    refine: u32,
+    derivative: bool,
+) -> Option<Layout> {
     let (mut lam, mut ymax, mut cmin, mut zmax) = (f64::INFINITY, 0.0f64, f64::INFINITY, 0.0f64);
     let mut xmax = 0.0f64;
     for &z in zs {
@@ -386,16 +407,26 @@ pub(super) fn layout(terms: &Terms, zs: &[Complex64], refine: u32) -> Option<Lay
     let h_need = step_for(terms.d, ymax);
     let level = (4.0 * (terms.h0 / h_need).log2()).ceil().max(0.0) as u32 + 4 * refine;
     let h = terms.h0 * (-(level as f64) / 4.0).exp2();
-    // Truncation: Σ|n| e^{−λT}/(λ D(T)) ≤ 2^TARGET, D(T) ≈ T for T ≥ 3.
-    let big_l = (terms.abs_n / lam).ln() - TAIL_LOG2 * std::f64::consts::LN_2;
+    // Truncation: Σ|n| e^{−λT}/(λ D(T)) ≤ 2^TARGET, D(T) ≈ T for T ≥ 3;
+    // the derivative's integrand carries an extra factor σ t (σ t ≤ 40 σ_max
+    // covers every T used).
+    let smax = terms.sigma.iter().fold(0.0f64, |m, s| m.max(*s));
+    let weight = if derivative {
+        40.0 * smax.max(1.0)
+    } else {
+        1.0
+    };
+    let big_l = (weight * terms.abs_n / lam).ln() - TAIL_LOG2 * std::f64::consts::LN_2;
     let mut t = (big_l / lam).max(3.0);
     for _ in 0..3 {
         t = ((big_l - t.ln()) / lam).max(3.0);
     }
     let dt = t * (-(-terms.a * t).exp_m1()) * (-(-t).exp_m1());
-    let tail = terms.abs_n * (-lam * t).exp() / dt / (-(-lam * h).exp_m1()) * h;
+    let mut tail = terms.abs_n * (-lam * t).exp() / dt / (-(-lam * h).exp_m1()) * h;
+    if derivative {
+        tail *= smax * (t + 1.0 / lam);
+    }
     let nodes = (t / h).ceil() as usize + 1;
-    let smax = terms.sigma.iter().fold(0.0f64, |m, s| m.max(*s));
     if nodes > MAX_NODES || smax * xmax * t > 650.0 {
         return None;
     }
@@ -450,9 +481,24 @@ impl Sums {
 
 /// `f(0)`, the first nodes in polynomial form, and the constant part of
 /// the other nodes.
-pub(super) fn fixed_part(terms: &Terms, grid: &Grid, lay: &Layout, z: Complex64, s: &mut Sums) {
+///
+/// With `derivative`, the same parts of `d/dz` of the integrand: `f(0)' =
+/// q₁ + 2q₂z + 3q₃z²`, the polynomial nodes `Σ_l l Γ_l z^{l−1}`, and no
+/// constant part (it does not depend on z).
+pub(super) fn fixed_part(
+    terms: &Terms,
+    grid: &Grid,
+    lay: &Layout,
+    z: Complex64,
+    s: &mut Sums,
+    derivative: bool,
+) {
     let q = &terms.q;
-    let f0 = Complex64::new(q[0], 0.0) + z * (q[1] + z * (q[2] + z * q[3])) - terms.f0_z0;
+    let f0 = if derivative {
+        Complex64::new(q[1], 0.0) + z * (2.0 * q[2] + z * (3.0 * q[3]))
+    } else {
+        Complex64::new(q[0], 0.0) + z * (q[1] + z * (q[2] + z * q[3])) - terms.f0_z0
+    };
     let g0 = f0 * (grid.h / 2.0);
     s.all += g0;
     s.even += g0;
@@ -461,18 +507,30 @@ pub(super) fn fixed_part(terms: &Terms, grid: &Grid, lay: &Layout, z: Complex64,
     let za = z.norm();
     for k in 1..=lay.small {
         let row = &grid.poly[k - 1];
-        let mut acc = Complex64::new(row[lay.degree], 0.0);
-        let mut mag = row[lay.degree].abs();
-        for l in (0..lay.degree).rev() {
-            acc = acc * z + row[l];
-            mag = mag * za + row[l].abs();
-        }
-        let g = acc - grid.poly_z0[k - 1];
+        let (g, mag) = if derivative {
+            // Σ_{l≥1} l row_l z^{l−1}
+            let top = lay.degree.max(1);
+            let mut acc = Complex64::new(top as f64 * row[top], 0.0);
+            let mut mag = (top as f64 * row[top]).abs();
+            for l in (1..top).rev() {
+                acc = acc * z + l as f64 * row[l];
+                mag = mag * za + (l as f64 * row[l]).abs();
+            }
+            (acc, mag)
+        } else {
+            let mut acc = Complex64::new(row[lay.degree], 0.0);
+            let mut mag = row[lay.degree].abs();
+            for l in (0..lay.degree).rev() {
+                acc = acc * z + row[l];
+                mag = mag * za + row[l].abs();
+            }
+            (acc - grid.poly_z0[k - 1], mag + grid.poly_z0[k - 1].norm())
+        };
         s.add(k, g);
         // Horner's rounding: a few units of the absolute series.
-        s.rl1 += (2.0 * (lay.degree as f64).sqrt() + 1.0) * mag + grid.poly_z0[k - 1].norm();
+        s.rl1 += (2.0 * (lay.degree as f64).sqrt() + 1.0) * mag;
     }
-    if terms.has_w0 {
+    if terms.has_w0 && !derivative {
         for k in lay.small + 1..=lay.nodes {
             s.add(k, grid.w0[k - 1]);
         }
@@ -499,7 +557,9 @@ pub(super) fn result(s: &Sums, lay: &Layout, prec: Prec) -> (Approx<Complex64>, 
 }
 
 /// Adds the nodes `first..=last` of one slope class, with `u = e^{−σzt}`
-/// and `v = 1/u` as geometric sequences seeded at `first`.
+/// and `v = 1/u` as geometric sequences seeded at `first`. With
+/// `derivative` the node values are those of `d/dz` of the integrand: the
+/// weights become `−σt W₊` and `+σt W₋`.
 #[allow(clippy::too_many_arguments)]
 pub(super) fn class_sum(
     grid: &Grid,
@@ -510,6 +570,7 @@ pub(super) fn class_sum(
     first: usize,
     last: usize,
     s: &mut Sums,
+    derivative: bool,
 ) {
     if first > last {
         return;
@@ -541,8 +602,22 @@ pub(super) fn class_sum(
             v *= e1;
         }
     }
-    let wp = &grid.wp[class][first - 1..last];
-    let wm = &grid.wm[class][first - 1..last];
+    // d/dz of the integrand: the weights −σ t W₊ and σ t W₋.
+    let (wp, wm, fa, fb) = if derivative {
+        (
+            &grid.twp[class][first - 1..last],
+            &grid.twm[class][first - 1..last],
+            -sigma,
+            sigma,
+        )
+    } else {
+        (
+            &grid.wp[class][first - 1..last],
+            &grid.wm[class][first - 1..last],
+            1.0,
+            1.0,
+        )
+    };
     let (d4r, d4i) = (d4.re, d4.im);
     let mut accr = [0.0; CHAINS];
     let mut acci = [0.0; CHAINS];
@@ -554,7 +629,7 @@ pub(super) fn class_sum(
         let base = blk * CHAINS;
         let mut bl = 0.0;
         for r in 0..CHAINS {
-            let (a, b) = (wp[base + r], wm[base + r]);
+            let (a, b) = (fa * wp[base + r], fb * wm[base + r]);
             let gr = a * ur[r] + b * vr[r];
             let gi = a * ui[r] + b * vi[r];
             accr[r] += gr;
@@ -576,13 +651,13 @@ pub(super) fn class_sum(
     }
     // The remaining nodes, and the chains' sums by parity of k.
     for (r, i) in (blocks * CHAINS..wp.len()).enumerate() {
-        let gr = wp[i] * ur[r] + wm[i] * vr[r];
-        let gi = wp[i] * ui[r] + wm[i] * vi[r];
+        let (a, b) = (fa * wp[i], fb * wm[i]);
+        let gr = a * ur[r] + b * vr[r];
+        let gi = a * ui[r] + b * vi[r];
         accr[r] += gr;
         acci[r] += gi;
         l1[r] += gr.abs() + gi.abs();
-        let mag =
-            wp[i].abs() * (ur[r].abs() + ui[r].abs()) + wm[i].abs() * (vr[r].abs() + vi[r].abs());
+        let mag = a.abs() * (ur[r].abs() + ui[r].abs()) + b.abs() * (vr[r].abs() + vi[r].abs());
         rl1[r] += mag;
         ml1 += (blocks + CHAINS) as f64 * mag;
     }
@@ -601,10 +676,14 @@ pub(super) fn class_sum(
 impl GammaProduct {
     /// The even integral at one point on the double path, or `None` where
     /// the uniform rule is declined.
+    ///
+    /// With `derivative` it is `d/dz log F` by the same rule (the
+    /// integrand differentiated under the integral sign).
     pub(super) fn trapezoid_point(
         &self,
         z: Complex64,
         prec: Prec,
+        derivative: bool,
     ) -> Result<Option<Approx<Complex64>>> {
         let Some(terms) = self.grid_terms() else {
             return Ok(None);
@@ -612,12 +691,12 @@ impl GammaProduct {
         // The step is chosen from the distance to the nearest poles; where
         // the estimate says it was too coarse (a large residue there), halve it.
         for refine in 0..3 {
-            let Some(lay) = layout(&terms, &[z], refine) else {
+            let Some(lay) = layout(&terms, &[z], refine, derivative) else {
                 return Ok(None);
             };
             let grid = self.grid(&terms, lay.level, lay.nodes)?;
             let mut s = Sums::default();
-            fixed_part(&terms, &grid, &lay, z, &mut s);
+            fixed_part(&terms, &grid, &lay, z, &mut s, derivative);
             for (c, &sigma) in terms.sigma.iter().enumerate() {
                 class_sum(
                     &grid,
@@ -628,6 +707,7 @@ impl GammaProduct {
                     lay.small + 1,
                     lay.nodes,
                     &mut s,
+                    derivative,
                 );
             }
             let (v, met) = result(&s, &lay, prec);
@@ -641,6 +721,6 @@ impl GammaProduct {
     /// The uniform rule's node count at z, if it applies (for the cost model).
     pub(super) fn trapezoid_nodes(&self, z: Complex64) -> Option<usize> {
         let terms = self.grid_terms()?;
-        layout(&terms, &[z], 0).map(|l| l.nodes)
+        layout(&terms, &[z], 0, false).map(|l| l.nodes)
     }
 }

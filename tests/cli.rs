@@ -10,6 +10,16 @@ use common::run_dressing as dressing;
 fn demo_runs_end_to_end_and_agrees_with_the_commands() {
     let (code, out, _) = dressing(&["demo"]);
     assert_eq!(code, 0, "{out}");
+    // The table for other codes: five rows on the screen, 801 in the file.
+    assert!(out.contains("theta_re,theta_im,S_re"), "{out}");
+    let tsv = out
+        .lines()
+        .find_map(|l| l.strip_prefix("wrote the same on -8:8 with 801 points to "))
+        .unwrap();
+    let text = std::fs::read_to_string(tsv.trim()).unwrap();
+    let rows: Vec<&str> = text.lines().filter(|l| !l.starts_with('#')).collect();
+    assert_eq!(rows.len(), 802);
+    assert!(rows[1..].iter().all(|r| r.ends_with("\tok")), "{text}");
     // Evaluation: each value checked by the other representation, to the 30 digits asked.
     assert_eq!(
         out.matches("verify: product form agrees to 3").count()

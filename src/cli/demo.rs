@@ -19,10 +19,14 @@ fn section(out: &mut String, title: &str) {
 /// The built-in demonstration, end to end on the invented lantern model:
 /// evaluation in and outside the integral's strip with the representation
 /// used and a second method, the equation checks, the pole table with
-/// bound-state readings, a CDD verdict and pictures written to a folder; then
+/// bound-state readings, a CDD verdict, a table of the kernel and pictures
+/// written to a folder; then
 /// the numeric core and a published check.
 pub(crate) fn demo() -> super::Report {
-    use super::{CddArgs, CheckArgs, EvalArgs, MethodArg, PlotArgs, PlotKind, PolesArgs};
+    use super::{
+        CddArgs, CheckArgs, EvalArgs, MethodArg, PlotArgs, PlotKind, PolesArgs, TableArgs,
+        TableFormat,
+    };
     let mut out = String::new();
     let mut failed = false;
     let dir = std::env::temp_dir().join("dressing-demo");
@@ -116,6 +120,37 @@ pub(crate) fn demo() -> super::Report {
             json: false,
         }),
     );
+    section(
+        &mut out,
+        "the dressed factor and its kernel φ = −i d/dθ log S on the real line, for other codes",
+    );
+    let table = |line: &str, n: usize, format: TableFormat| TableArgs {
+        model: path.clone(),
+        factor: Some("dressed".into()),
+        line: line.into(),
+        n,
+        digits: 10,
+        format,
+        method: MethodArg::Auto,
+        set: vec![],
+    };
+    run(
+        &mut out,
+        super::table::table_cmd(&table("-2:2", 5, TableFormat::Csv)),
+    );
+    let tsv = dir.join("dressed-table.tsv");
+    let written = super::table::table_cmd(&table("-8:8", 801, TableFormat::Tsv)).and_then(|r| {
+        std::fs::write(&tsv, &r.stdout)
+            .map_err(|e| format!("cannot write {}: {e}", tsv.display()))?;
+        Ok(super::Report {
+            stdout: format!(
+                "wrote the same on -8:8 with 801 points to {}\n",
+                tsv.display()
+            ),
+            failed: r.failed,
+        })
+    });
+    run(&mut out, written);
     section(&mut out, "pictures");
     for (kind, name) in [(PlotKind::Strip, "strip"), (PlotKind::Axis, "axis")] {
         run(

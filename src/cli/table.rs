@@ -80,7 +80,10 @@ fn fields<C: ComplexField>(row: &TableRow<C>, digits: usize, requested: u64) -> 
     let double = C::MAX_PREC.is_some();
     // Shortest round-trip text on the double path, `digits` digits otherwise.
     let num = |x: &Float| -> String {
-        if double {
+        if x.is_zero() {
+            // No "-0": a signed zero says nothing a reader of a table needs.
+            "0".to_string()
+        } else if double {
             format!("{:e}", x.to_f64())
         } else {
             x.to_string_radix(10, Some(digits))

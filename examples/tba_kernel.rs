@@ -44,7 +44,7 @@ fn effective_central_charge(model: &Model, name: &str, r: f64) -> Result<(f64, f
         .map_err(|e| e.to_string())?;
     let mut phi = Vec::with_capacity(2 * n - 1);
     let mut worst = 0.0f64;
-    for row in rows {
+    for (_, row) in rows {
         let row = row.map_err(|e| e.to_string())?;
         worst = worst.max(row.kernel.radius.to_f64());
         phi.push(row.phi().re);

@@ -611,3 +611,25 @@ fn batches_match_point_by_point() {
         );
     }
 }
+
+/// The divergence hint suggests normalising only where that helps: a
+/// failed condition with the slopes in it (here Σ n·s = −2 for
+/// Γ(k+½−z)/Γ(k+½+z)) depends on z and survives normalisation.
+#[test]
+fn divergence_hint_offers_normalisation_only_where_it_helps() {
+    let t = |s: i64, n: i64| {
+        GammaTerm::new(Coef::integer(1), Coef::rational(1, 2), Coef::integer(s), n)
+    };
+    let e = GammaProduct::new(vec![t(-1, 1), t(1, -1)], Scale::Unit, None)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("Σ n·s = 0"), "{e}");
+    assert!(!e.contains("normalise"), "{e}");
+    // Π_k Γ(k+1)/Γ(k+2) fails a z-independent condition, which normalising lifts.
+    let u =
+        |b: i64, n: i64| GammaTerm::new(Coef::integer(1), Coef::integer(b), Coef::integer(0), n);
+    let e = GammaProduct::new(vec![u(1, 1), u(2, -1)], Scale::Unit, None)
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("normalise"), "{e}");
+}

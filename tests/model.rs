@@ -468,3 +468,22 @@ fn a_rapidity_beyond_both_representations_says_so() {
         )
         .is_ok());
 }
+
+/// A value piece `-1` is the principal logarithm iπ (DLMF 4.2.3: the
+/// phase in (−π, π]), not −iπ from the signed zero of `-1 = −(1 + 0i)`.
+#[test]
+fn a_negative_constant_piece_has_the_principal_logarithm() {
+    let m = Model::from_toml(
+        "[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"expression\"\nvalue = \"-1\"\n",
+        "neg.toml",
+    )
+    .unwrap();
+    let v = m
+        .evaluate("S", &Complex64::new(0.3, 0.0), Prec::DOUBLE, Method::Auto)
+        .unwrap();
+    assert!(
+        (v.log.value.im - std::f64::consts::PI).abs() < 1e-15,
+        "{}",
+        v.log.value
+    );
+}

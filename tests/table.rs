@@ -49,7 +49,7 @@ fn phase_winds_through_many_cuts_continuously_and_integrates_the_kernel() {
             Method::Auto,
         )
         .unwrap();
-    let rows: Vec<_> = rows.into_iter().map(|r| r.unwrap()).collect();
+    let rows: Vec<_> = rows.into_iter().map(|(_, r)| r.unwrap()).collect();
     let delta: Vec<f64> = rows.iter().map(|r| r.eval.phase()).collect();
     let phi: Vec<f64> = rows.iter().map(|r| r.phi().re).collect();
     let span = delta[n - 1] - delta[0];
@@ -113,7 +113,7 @@ fn table_at_40_digits_agrees_with_the_double_table() {
             Method::Auto,
         )
         .unwrap();
-    for (l, h) in lo.iter().zip(&hi) {
+    for ((_, l), (_, h)) in lo.iter().zip(&hi) {
         let (l, h) = (l.as_ref().unwrap(), h.as_ref().unwrap());
         let hk = Complex64::new(
             h.kernel.value.real().to_f64(),
@@ -190,7 +190,16 @@ fn a_point_at_a_pole_is_reported_and_the_exit_status_is_one() {
     assert_eq!(code, 1, "{csv}");
     let rows = rows_of(&csv);
     assert!(rows[2][12].contains("pole of order 1"), "{csv}");
-    assert!(rows[2][..12].iter().all(String::is_empty));
+    // The point is named, its values are empty.
+    assert_eq!(rows[2][0], "0");
+    assert!((rows[2][1].parse::<f64>().unwrap() - std::f64::consts::PI * 0.175).abs() < 1e-15);
+    assert!(rows[2][2..12].iter().all(String::is_empty));
+    let (_, json, _) = dressing(&[
+        "table", &path, "--factor", "dressed", "--line", "0:i*pi*g", "--n", "3", "--format", "json",
+    ]);
+    let doc: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert!(doc["points"][1]["theta_im"].as_f64().is_some(), "{json}");
+    assert!(doc["points"][1]["phi_re"].is_null(), "{json}");
     assert_eq!(rows[1][12], "ok");
 }
 
@@ -255,4 +264,31 @@ fn tba_example_reaches_the_lee_yang_central_charge() {
         c("1e0") < c("1e-1") && c("1e-1") < c("1e-3") && c("1e-3") <= 0.4 + 1e-12,
         "{text}"
     );
+}
+
+/// A reader that stops early (`dressing table … | head -1`) closes the pipe;
+/// the program ends quietly with status 0 instead of panicking.
+#[test]
+fn a_closed_pipe_ends_the_output_quietly() {
+    use std::io::Read;
+    use std::process::Stdio;
+    let path = lantern_path();
+    let mut child = Command::new(env!("CARGO_BIN_EXE_dressing"))
+        .args(["table", &path, "--line", "-8:8", "--n", "200000"])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let mut first = [0u8; 16];
+    child.stdout.take().unwrap().read_exact(&mut first).unwrap();
+    // The read end is dropped here, before the program writes the rest.
+    let out = child.wait_with_output().unwrap();
+    assert_eq!(&first[..8], b"theta_re");
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(!String::from_utf8_lossy(&out.stderr).contains("panicked"));
 }

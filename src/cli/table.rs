@@ -70,28 +70,42 @@ const COLUMNS: &[(&str, &str)] = &[
     ("status", "ok, or why the point has no values (a pole, a zero, …)"),
 ];
 
-/// One row as text fields.
+/// One row as text fields: θ, then the values (none at a pole or zero).
 struct Fields {
-    values: Option<[String; 12]>,
+    theta: (String, String),
+    values: Option<[String; 10]>,
     status: String,
+}
+
+/// A number as table text: the shortest round-trip decimal on the double
+/// path, `digits` digits otherwise; no "-0" (a signed zero says nothing a
+/// reader of a table needs).
+fn number(x: &Float, double: bool, digits: usize) -> String {
+    if x.is_zero() {
+        "0".to_string()
+    } else if double {
+        format!("{:e}", x.to_f64())
+    } else {
+        x.to_string_radix(10, Some(digits))
+    }
+}
+
+/// (Re θ, Im θ) as table text.
+fn theta_text<C: ComplexField>(theta: &C, digits: usize) -> (String, String) {
+    let double = C::MAX_PREC.is_some();
+    let t = theta.to_complex();
+    (
+        number(t.real(), double, digits),
+        number(t.imag(), double, digits),
+    )
 }
 
 fn fields<C: ComplexField>(row: &TableRow<C>, digits: usize, requested: u64) -> Fields {
     let double = C::MAX_PREC.is_some();
-    // Shortest round-trip text on the double path, `digits` digits otherwise.
-    let num = |x: &Float| -> String {
-        if x.is_zero() {
-            // No "-0": a signed zero says nothing a reader of a table needs.
-            "0".to_string()
-        } else if double {
-            format!("{:e}", x.to_f64())
-        } else {
-            x.to_string_radix(10, Some(digits))
-        }
-    };
+    let num = |x: &Float| number(x, double, digits);
     let e = &row.eval;
     let p = e.log.prec;
-    let (theta, value) = (e.theta.to_complex(), e.value.value.to_complex());
+    let value = e.value.value.to_complex();
     let log = e.log.value.to_complex();
     let k = row.kernel.value.to_complex();
     let neg = |x: &Float| Float::with_val(p, -x);
@@ -101,10 +115,10 @@ fn fields<C: ComplexField>(row: &TableRow<C>, digits: usize, requested: u64) -> 
     } else {
         "ok".to_string()
     };
+    let (theta_re, theta_im) = theta_text(&e.theta, digits);
     Fields {
+        theta: (theta_re, theta_im),
         values: Some([
-            num(theta.real()),
-            num(theta.imag()),
             num(value.real()),
             num(value.imag()),
             num(&Float::with_val(p, log.real()).exp()),
@@ -165,7 +179,7 @@ pub(crate) fn table_cmd(args: &TableArgs) -> Result<Report, String> {
     let method: Method = args.method.into();
     let digits = args.digits as usize;
     let double = args.digits <= DOUBLE_DIGITS;
-    let rows: Vec<Result<Fields, String>> = if double {
+    let rows: Vec<Result<Fields, Failed>> = if double {
         let c = |z: &Complex| Complex64::new(z.real().to_f64(), z.imag().to_f64());
         collect(
             &model,
@@ -184,7 +198,8 @@ pub(crate) fn table_cmd(args: &TableArgs) -> Result<Report, String> {
     let rows: Vec<Fields> = rows
         .into_iter()
         .map(|r| {
-            r.unwrap_or_else(|status| Fields {
+            r.unwrap_or_else(|(theta, status)| Fields {
+                theta,
                 values: None,
                 status,
             })
@@ -197,6 +212,9 @@ pub(crate) fn table_cmd(args: &TableArgs) -> Result<Report, String> {
     };
     Ok(Report { stdout, failed })
 }
+
+/// A point without values: θ as text, and why.
+type Failed = ((String, String), String);
 
 /// The most points one table may have.
 pub const MAX_POINTS: usize = 10_000_000;
@@ -211,15 +229,15 @@ fn collect<C: ComplexField>(
     prec: Prec,
     method: Method,
     digits: usize,
-) -> Result<Vec<Result<Fields, String>>, String> {
+) -> Result<Vec<Result<Fields, Failed>>, String> {
     let rows = model
         .tabulate(factor, from, to, args.n, prec, method)
         .map_err(|e| format!("--line {}: {e}", args.line))?;
     Ok(rows
         .into_iter()
-        .map(|r| match r {
+        .map(|(theta, r)| match r {
             Ok(row) => Ok(fields(&row, digits, args.digits)),
-            Err(e) => Err(failure(&e)),
+            Err(e) => Err((theta_text(&theta, digits), failure(&e))),
         })
         .collect())
 }
@@ -256,10 +274,11 @@ fn delimited(rows: &[Fields], sep: &str, header: Option<String>) -> String {
     let names: Vec<&str> = COLUMNS.iter().map(|c| c.0).collect();
     let _ = writeln!(out, "{}", names.join(sep));
     for r in rows {
-        let mut cells: Vec<String> = match &r.values {
-            Some(v) => v.to_vec(),
-            None => vec![String::new(); COLUMNS.len() - 1],
-        };
+        let mut cells = vec![r.theta.0.clone(), r.theta.1.clone()];
+        match &r.values {
+            Some(v) => cells.extend(v.iter().cloned()),
+            None => cells.extend(std::iter::repeat_n(String::new(), COLUMNS.len() - 3)),
+        }
         let status = if sep == "," {
             csv_field(&r.status)
         } else {
@@ -284,8 +303,10 @@ fn json(model: &Model, factor: &str, args: &TableArgs, prec: Prec, rows: &[Field
         .iter()
         .map(|r| {
             let mut o = serde_json::Map::new();
+            o.insert("theta_re".into(), value(&r.theta.0));
+            o.insert("theta_im".into(), value(&r.theta.1));
             if let Some(v) = &r.values {
-                for ((name, _), cell) in COLUMNS.iter().zip(v.iter()) {
+                for ((name, _), cell) in COLUMNS[2..].iter().zip(v.iter()) {
                     let cell = if name.starts_with("err") || *name == "digits" {
                         serde_json::json!(cell.parse::<f64>().unwrap_or(f64::NAN))
                     } else {

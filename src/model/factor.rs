@@ -401,6 +401,13 @@ impl ExpressionPiece {
         if v.is_zero() {
             return Err(self.vanishes(theta));
         }
+        // The principal logarithm, Im in (−π, π]: a negative real value
+        // written as `-1` carries a signed zero, −0i, which would give −iπ.
+        let v = if v.im_f64() == 0.0 {
+            v + &C::from_i64(0, theta.prec())
+        } else {
+            v
+        };
         Ok(v.ln())
     }
 }

@@ -46,7 +46,8 @@ impl Model {
     /// The factor at `n ≥ 2` equally spaced points from `from` to `to`,
     /// with the kernel `d/dθ log S` at each ([`super::Factor::log_derivative`]);
     /// `log S` is continuous along the line (continued from the base point
-    /// to `from`). The entry of a point at a pole or zero is that error.
+    /// to `from`). Each entry is the point and its row, or the error where
+    /// the point is a pole or zero.
     ///
     /// ```
     /// use dressing::model::Model;
@@ -57,7 +58,9 @@ impl Model {
     /// let (a, b) = (Complex64::new(-2.0, 0.0), Complex64::new(2.0, 0.0));
     /// let rows = m.tabulate("S", &a, &b, 41, Prec::DOUBLE, Method::Auto).unwrap();
     /// // Lee–Yang: φ(0) = −4√3/3 (Al. B. Zamolodchikov 1990).
-    /// let mid = rows[20].as_ref().unwrap();
+    /// let (theta, row) = &rows[20];
+    /// assert_eq!(theta.re, 0.0);
+    /// let mid = row.as_ref().unwrap();
     /// assert!((mid.phi().re + 4.0 * 3f64.sqrt() / 3.0).abs() < 1e-14);
     /// ```
     pub fn tabulate<C: ComplexField>(
@@ -68,7 +71,7 @@ impl Model {
         n: usize,
         prec: Prec,
         method: Method,
-    ) -> Result<Vec<Result<TableRow<C>>>> {
+    ) -> Result<Vec<(C, Result<TableRow<C>>)>> {
         let f = self.factor(factor)?;
         let points = super::line_points("Model::tabulate", from, to, n)?;
         let computed: Vec<Result<(super::LogSum<C>, Approx<C>)>> = points
@@ -130,12 +133,13 @@ impl Model {
             .zip(computed)
             .zip(phases)
             .map(|((t, c), im)| {
-                let (sum, kernel) = c?;
-                let im = im?;
-                Ok(TableRow {
-                    eval: self.finish(t, sum, im),
-                    kernel,
-                })
+                let row = c.and_then(|(sum, kernel)| {
+                    Ok(TableRow {
+                        eval: self.finish(t, sum, im?),
+                        kernel,
+                    })
+                });
+                (t.clone(), row)
             })
             .collect())
     }

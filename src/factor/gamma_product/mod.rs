@@ -352,7 +352,9 @@ impl GammaProduct {
                 hint: format!(
                     "{}; change the powers, offsets or slopes so that it vanishes{}",
                     c.meaning,
-                    if normalise_at.is_none() {
+                    // Normalising removes only the z-independent conditions
+                    // (those without the slopes s).
+                    if normalise_at.is_none() && !c.formula.contains('s') {
                         ", or normalise the product at a reference rapidity"
                     } else {
                         ""

@@ -281,3 +281,59 @@ fn rectangle_count_matches_enumeration() {
         .to_string();
     assert!(e.contains("move the rectangle"), "{e}");
 }
+
+/// The coupling scan reads its ends exactly, counts poles with their
+/// orders, reports a pole cancelled by a zero as such, and reports a value
+/// where the model cannot be built on its own line instead of aborting.
+/// The positions are the lantern model's own (poles of the block at g/2 and
+/// 1 − g/2, σ's pole at g and zero at 1/2), so the expectations follow
+/// from the model file, not from the program.
+#[test]
+fn scan_is_exact_and_names_cancellations() {
+    let run = |scan: &str| {
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_dressing"))
+            .args([
+                "poles",
+                "examples/lantern.toml",
+                "--factor",
+                "dressed",
+                "--scan",
+                scan,
+            ])
+            .current_dir(env!("CARGO_MANIFEST_DIR"))
+            .output()
+            .unwrap();
+        (
+            out.status.code(),
+            String::from_utf8_lossy(&out.stdout).into_owned(),
+        )
+    };
+    let (code, out) = run("g=1/3:2/3:3");
+    assert_eq!(code, Some(0), "{out}");
+    assert!(
+        out.contains("from 1/3 ≈ 0.333333 to 2/3 ≈ 0.666667"),
+        "{out}"
+    );
+    assert!(
+        out.contains("a pole and a zero collide at u/π = 1/2 (g = 0.5)"),
+        "{out}"
+    );
+    assert!(
+        out.contains("1 pole(s) fewer at g = 0.5: cancelled"),
+        "{out}"
+    );
+    // At g = 2/3 σ's pole (u/π = g) meets the block's (1 − g/2): order 2.
+    assert!(out.contains("0.666667 (order 2)"), "{out}");
+    assert!(!out.contains("left the strip"), "{out}");
+    let (code, out) = run("g=0.2:0.8:7");
+    assert_eq!(code, Some(0));
+    assert!(
+        out.contains("  g = 0.6 ") && !out.contains("0.6000000000000001"),
+        "{out}"
+    );
+    // g = 0 makes the base point θ = 0 removable for σ: that value alone fails.
+    let (code, out) = run("g=0:1:4");
+    assert_eq!(code, Some(0), "{out}");
+    assert!(out.contains("g = 0          not computed"), "{out}");
+    assert!(out.contains("g = 1/3 ≈ 0.333333 0.166667+"), "{out}");
+}

@@ -261,36 +261,59 @@ fn scan_cmd(
     if parts.len() != 3 {
         return Err(bad());
     }
-    let from: f64 = parts[0].trim().parse().map_err(|_| bad())?;
-    let to: f64 = parts[1].trim().parse().map_err(|_| bad())?;
+    // The ends are read exactly (0.1 is 1/10, 2/3 is 2/3), and so are the
+    // values in between: coincidences at round values are then exact.
+    let exact = |t: &str| {
+        crate::expr::Expr::parse(t.trim())
+            .ok()
+            .and_then(|e| e.to_rational(|_| None))
+            .ok_or_else(bad)
+    };
+    let (from_q, to_q) = (exact(parts[0])?, exact(parts[1])?);
     let steps: usize = parts[2].trim().parse().map_err(|_| bad())?;
-    if !(from.is_finite() && to.is_finite() && (2..=10_000).contains(&steps)) {
+    if !(2..=10_000).contains(&steps) {
         return Err(bad());
     }
+    if !model.parameters().names().any(|n| n == name) {
+        return Err(format!(
+            "--scan {scan}: `{name}` is not a parameter of the model; the parameters are: {}",
+            model.parameters().names().collect::<Vec<_>>().join(", ")
+        ));
+    }
+    let (from, to) = (show_rational(&from_q), show_rational(&to_q));
     let mut out = String::new();
     let _ = writeln!(
         out,
         "poles of `{factor}` in the physical strip as {name} goes from {from} to {to} ({steps} values); u/π per value"
     );
-    let mut prev: Option<(f64, Vec<f64>)> = None;
+    // (value, poles in the strip, whether poles met zeros there)
+    let mut prev: Option<(String, Vec<f64>, bool)> = None;
     let mut opts = opts.clone();
     opts.window = (0.0, 1.0);
     for j in 0..steps {
-        let v = from + (to - from) * j as f64 / (steps - 1) as f64;
-        let m = model
-            .with_parameters(&[(name.to_string(), format!("{v}"))])
-            .map_err(|e| format!("--scan {scan}: {e}"))?;
-        let (points, cancelled) = match analyse(&m, factor, &opts) {
-            Ok(r) => r,
+        let q =
+            rug::Rational::from(&to_q - &from_q) * rug::Rational::from((j, steps - 1)) + &from_q;
+        let v = show_rational(&q);
+        let m = match model.with_parameters(&[(name.to_string(), q.to_string())]) {
+            Ok(m) => m,
             Err(e) => {
-                let _ = writeln!(out, "  {name} = {v:<10.6} not computed: {e}");
+                let _ = writeln!(out, "  {name} = {v:<10} not computed: {e}");
                 continue;
             }
         };
+        let (points, cancelled) = match analyse(&m, factor, &opts) {
+            Ok(r) => r,
+            Err(e) => {
+                let _ = writeln!(out, "  {name} = {v:<10} not computed: {e}");
+                continue;
+            }
+        };
+        // Poles counted with their orders, so two poles merging into a
+        // double pole are not read as one leaving.
         let poles: Vec<f64> = points
             .iter()
             .filter(|p| p.point.order > 0 && p.in_strip)
-            .map(|p| p.point.coordinate)
+            .flat_map(|p| std::iter::repeat_n(p.point.coordinate, p.point.order as usize))
             .collect();
         let list: Vec<String> = points
             .iter()
@@ -301,47 +324,89 @@ fn scan_cmd(
                     Some(_) => "−",
                     None => "",
                 };
-                format!("{:.6}{s}", p.point.coordinate)
+                let order = if p.point.order > 1 {
+                    format!(" (order {})", p.point.order)
+                } else {
+                    String::new()
+                };
+                format!("{:.6}{s}{order}", p.point.coordinate)
             })
             .collect();
         let _ = writeln!(
             out,
-            "  {name} = {v:<10.6} {}",
+            "  {name} = {v:<10} {}",
             if list.is_empty() {
                 "(none)".into()
             } else {
                 list.join("  ")
             }
         );
+        let mut collided = false;
         for c in cancelled
             .iter()
             .filter(|c| c.coordinate > 0.0 && c.coordinate < 1.0)
         {
+            collided = true;
             let _ = writeln!(
                 out,
                 "      a pole and a zero collide at u/π = {} ({name} = {v})",
                 c.coordinate_text()
             );
         }
-        if let Some((pv, pp)) = &prev {
-            if poles.len() > pp.len() {
-                let _ = writeln!(
-                    out,
-                    "      {} pole(s) entered the strip between {name} = {pv} and {v}",
-                    poles.len() - pp.len()
-                );
-            } else if poles.len() < pp.len() {
-                let _ = writeln!(
-                    out,
-                    "      {} pole(s) left the strip between {name} = {pv} and {v}",
-                    pp.len() - poles.len()
-                );
+        if let Some((pv, pp, was_collided)) = &prev {
+            let (now, before) = (poles.len(), pp.len());
+            let line = if now < before && collided {
+                format!(
+                    "{} pole(s) fewer at {name} = {v}: cancelled by the zero(s) they meet",
+                    before - now
+                )
+            } else if now > before && *was_collided {
+                format!(
+                    "{} pole(s) back after the collision at {name} = {pv}",
+                    now - before
+                )
+            } else if now > before {
+                format!(
+                    "{} pole(s) entered the strip between {name} = {pv} and {v}",
+                    now - before
+                )
+            } else if now < before {
+                format!(
+                    "{} pole(s) left the strip between {name} = {pv} and {v}",
+                    before - now
+                )
+            } else {
+                String::new()
+            };
+            if !line.is_empty() {
+                let _ = writeln!(out, "      {line}");
             }
         }
-        prev = Some((v, poles));
+        prev = Some((v, poles, collided));
     }
     Ok(Report {
         stdout: out,
         failed: false,
     })
+}
+
+/// A scan value: its decimal expansion when that ends within 12 digits,
+/// otherwise the fraction and a decimal approximation.
+fn show_rational(q: &rug::Rational) -> String {
+    let mut den = q.denom().clone();
+    for p in [2u32, 5] {
+        while den.is_divisible_u(p) {
+            den /= p;
+        }
+    }
+    // Nearest double (Rational::to_f64 truncates).
+    let x = rug::Float::with_val(53, q).to_f64();
+    if den == 1 {
+        let d = format!("{x}");
+        let digits = d.chars().filter(|c| c.is_ascii_digit()).count();
+        if digits <= 12 {
+            return d;
+        }
+    }
+    format!("{q} ≈ {x:.6}")
 }

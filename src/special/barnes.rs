@@ -241,6 +241,24 @@ fn eval<C: ComplexField>(z: &C, wp: u32) -> Core<C> {
     }
 }
 
+/// log G(z) at double precision with an estimate of its *absolute* error
+/// (the relative accuracy of G), for sums of logarithms such as Barnes
+/// factors of a scalar factor, where relative accuracy of log G itself near
+/// its zeros does not matter: no recomputation on MPFR. `None` at a zero of
+/// G, left of `MIN_REAL_PART`, or out of the double range.
+pub(crate) fn log_barnes_g_f64_absolute(z: Complex64) -> Option<(Complex64, f64)> {
+    if !(z.re.is_finite() && z.im.is_finite()) || z.re < MIN_REAL_PART {
+        return None;
+    }
+    if z.im == 0.0 && z.re <= 0.0 && z.re == z.re.round() {
+        return None;
+    }
+    let (v, e) = double_kernel(Complex64::new(z.re, z.im.abs()));
+    let v = if z.im < 0.0 { v.conj() } else { v };
+    (v.re.is_finite() && v.im.is_finite() && e.is_finite())
+        .then_some((v, e + f64::EPSILON * v.norm()))
+}
+
 /// Terms of the asymptotic series on the double path (|v| ≥ 8: the 11th
 /// term is below 10⁻¹⁸).
 const DOUBLE_TERMS: usize = 10;

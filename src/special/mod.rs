@@ -22,6 +22,7 @@ mod hurwitz;
 mod loggamma;
 mod polygamma;
 
+pub(crate) use barnes::log_barnes_g_f64_absolute;
 pub use barnes::{barnes_g, log_barnes_g};
 pub use bernoulli::bernoulli;
 pub(crate) use bernoulli::with_even_bernoulli;

@@ -8,7 +8,9 @@ use crate::error::{Error, Result};
 use crate::factor::{Coef, Scale};
 use crate::num::{ComplexField, RealField};
 use crate::precision::{Approx, Prec, Radius};
-use crate::special::{check_arg, digamma, log_barnes_g, log_gamma, trigamma_bound_log2};
+use crate::special::{
+    check_arg, digamma, log_barnes_g, log_barnes_g_f64_absolute, log_gamma, trigamma_bound_log2,
+};
 use num_complex::Complex64;
 use rug::Float;
 use std::collections::HashMap;
@@ -262,6 +264,17 @@ impl Affine {
         {
             let l = match self.kind {
                 Kind::Gamma => log_gamma(w, inner),
+                // The piece needs log G to an absolute accuracy only.
+                Kind::Barnes if C::MAX_PREC.is_some() => {
+                    match log_barnes_g_f64_absolute(Complex64::new(w.re_f64(), w.im_f64())) {
+                        Some((v, e)) => Ok(Approx::new(
+                            C::from_f64(v.re, v.im, 53),
+                            Radius::from_f64(e),
+                            53,
+                        )),
+                        None => log_barnes_g(w, inner),
+                    }
+                }
                 Kind::Barnes => log_barnes_g(w, inner),
             }
             .map_err(|e| self.rename(e, theta))?;

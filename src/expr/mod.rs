@@ -121,6 +121,7 @@
 //! that parses back to the same tree.
 
 mod analysis;
+mod bound;
 mod derivative;
 mod display;
 mod eval;
@@ -133,6 +134,7 @@ pub use node::{Builtin, Factor, Node, Number, Term};
 
 use crate::error::{Error, Result};
 use crate::num::ComplexField;
+use num_complex::Complex64;
 use rug::Rational;
 use std::collections::{BTreeMap, BTreeSet, HashMap};
 use std::fmt;
@@ -300,6 +302,60 @@ impl Expr {
                 column: None,
                 message,
             })
+    }
+
+    /// `d/dx log(expr)`, with the logarithm split over products, constant
+    /// powers and `exp` before differentiating (see `derivative.rs`);
+    /// `wrt` as for [`Expr::derivative`].
+    ///
+    /// ```
+    /// use dressing::expr::{Expr, Node};
+    /// let e = Expr::parse("exp(i*g*sinh(theta)) * theta^2").unwrap();
+    /// let one = Expr::parse("1").unwrap().node().clone();
+    /// let d = e.log_derivative(&[("theta", one)]).unwrap().unwrap();
+    /// assert_eq!(d.to_string(), "cosh(theta)*i*g + 2*(1/theta)");
+    /// ```
+    pub fn log_derivative(&self, wrt: &[(&str, Node)]) -> Result<Option<Expr>> {
+        derivative::log_derivative(&self.node, wrt)
+            .map(|d| d.map(Expr::from_node))
+            .map_err(|message| Error::Expression {
+                location: None,
+                expr: self.source.clone(),
+                column: None,
+                message,
+            })
+    }
+
+    /// The value at double precision with a running error bound (see
+    /// `bound.rs`): `Some((value, bound))` where the expression uses only
+    /// arithmetic, integer powers and elementary functions, each applied
+    /// clearly away from its singularities; `None` otherwise. The value is
+    /// that of [`Expr::eval`]; `exact` names the variables that carry no
+    /// error of their own.
+    ///
+    /// ```
+    /// use dressing::expr::Expr;
+    /// use num_complex::Complex64;
+    /// let e = Expr::parse("sinh(theta)/(1 + theta^2)").unwrap();
+    /// let t = Complex64::new(0.7, 0.2);
+    /// let (v, b) = e.eval_with_bound(&[("theta", t)], &|n| n == "theta").unwrap();
+    /// let want = t.sinh() / (1.0 + t * t);
+    /// assert!((v - want).norm() <= b && b < 1e-14);
+    /// assert!(Expr::parse("gamma(theta)").unwrap().eval_with_bound(&[("theta", t)], &|_| true).is_none());
+    /// ```
+    pub fn eval_with_bound<E>(
+        &self,
+        env: &E,
+        exact: &dyn Fn(&str) -> bool,
+    ) -> Option<(Complex64, f64)>
+    where
+        E: Env<Complex64> + ?Sized,
+    {
+        let (b, e) = bound::bound(&self.node, env, exact)?;
+        let v: Complex64 = self.eval(env, 53).ok()?;
+        // The bound is for the walk's own value; the evaluator's may differ
+        // by the rounding of a different formula (tanh, sinh).
+        Some((v, e + (v - b).norm() + f64::EPSILON * v.norm()))
     }
 
     /// The names of the parameters used, sorted (constants and function

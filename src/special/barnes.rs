@@ -291,7 +291,10 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
     let v2 = v * v;
     let main = (v2 * 0.5 - 1.0 / 12.0) * ln_v - v2 * 0.75 + v * (0.5 * LN_2PI);
     let mut value = main + series + ZETA_PRIME_MINUS_ONE;
-    let mut mag = main.norm() + series.norm() + ZETA_PRIME_MINUS_ONE.abs();
+    // The largest term summed (the generic code's rounding model:
+    // operations × 2^−53 × largest term), and log Γ's own error.
+    let mut mag = main.norm().max(1.0);
+    let mut extra = 0.0;
     if r > 0 {
         // − r log Γ(z) − Σ_{k=1}^{r−1} ln P_k
         let lg = super::log_gamma(&z, Prec::DOUBLE).map(|a| (a.value, a.radius.to_f64()));
@@ -299,7 +302,8 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
             return (Complex64::new(f64::NAN, f64::NAN), f64::INFINITY);
         };
         value -= lg * r as f64;
-        mag += r as f64 * (lg.norm() + lg_err / EPS);
+        mag = mag.max(r as f64 * lg.norm());
+        extra += r as f64 * lg_err;
         let mut prod = one;
         let mut crossings = 0i64;
         let mut turns = 0i64;
@@ -312,12 +316,12 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
             }
             turns += crossings;
             let l = prod.ln();
-            mag += l.norm();
+            mag = mag.max(l.norm());
             sum_ln += l;
         }
         let turn = Complex64::new(0.0, 2.0 * std::f64::consts::PI * turns as f64);
         value = value - sum_ln - turn;
-        mag += turn.norm();
+        mag = mag.max(turn.norm());
         if z.im == 0.0 && z.re < 0.0 {
             // On the cut (limit from above): ln(x + j + i0) = ln|x + j| + iπ
             // for x + j < 0, so the imaginary part is known exactly.
@@ -330,7 +334,7 @@ fn double_kernel(z: Complex64) -> (Complex64, f64) {
     let nt = DOUBLE_TERMS as i32 + 1;
     let trunc = c[DOUBLE_TERMS].abs() * abs_v.powi(-2 * nt) * sec2.powi(nt + 1);
     let ops = (DOUBLE_TERMS + 12) as f64 + 3.0 * r as f64;
-    (value, trunc + EPS * mag * ops.sqrt() * 2.0)
+    (value, trunc + extra + EPS * mag * (4.0 + ops.sqrt()))
 }
 
 /// `B_{2k+2}/(4k(k+1))` in `f64`, `DOUBLE_TERMS + 1` of them.

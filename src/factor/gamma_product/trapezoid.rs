@@ -237,23 +237,20 @@ impl GammaProduct {
                 return Ok(Arc::clone(g));
             }
         }
-        // Build (or rebuild, longer) outside the lock; at least twice the old.
-        let old = self
-            .grids
-            .grids
-            .read()
-            .expect("poisoned")
-            .get(&level)
-            .cloned();
+        // Build (or rebuild, longer: at least twice the old) under the write
+        // lock, so that threads arriving together build it once; the others
+        // wait for it instead of repeating the MPFR work.
+        let mut grids = self.grids.grids.write().expect("poisoned");
+        if let Some(g) = grids.get(&level) {
+            if g.len() >= len {
+                return Ok(Arc::clone(g));
+            }
+        }
         let want = len
-            .max(old.as_ref().map_or(0, |g| 2 * g.len()))
+            .max(grids.get(&level).map_or(0, |g| 2 * g.len()))
             .min(MAX_NODES);
         let g = Arc::new(self.build_grid(terms, level, want)?);
-        self.grids
-            .grids
-            .write()
-            .expect("poisoned")
-            .insert(level, Arc::clone(&g));
+        grids.insert(level, Arc::clone(&g));
         Ok(g)
     }
 

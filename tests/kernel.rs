@@ -11,7 +11,7 @@ use dressing::factor::{Method, Scale};
 use dressing::model::Model;
 use dressing::num::ComplexField;
 use dressing::quadrature::{default_rule, Domain};
-use dressing::{Error, Prec};
+use dressing::{Approx, Error, Prec};
 use num_complex::Complex64;
 use rug::float::Constant;
 use rug::{Complex, Float};
@@ -63,6 +63,24 @@ fn numerical_derivative(model: &Model, factor: &str, theta: &Complex, digits: u3
     let h2 = Float::with_val(p, &h / 2u32);
     let (d1, d2) = (d(&h), d(&h2));
     (d2 * 4u32 - d1) / 3u32
+}
+
+/// The double-path kernel `d` is within its radius of the 40-digit one,
+/// and the radius is at most `rel` relative to max(|kernel|, 1).
+fn within_estimate(what: &str, d: &Approx<Complex64>, hi: &Approx<Complex>, rel: f64) {
+    let want = Complex64::new(hi.value.real().to_f64(), hi.value.imag().to_f64());
+    let err = (d.value - want).norm();
+    assert!(
+        err <= d.radius.to_f64() + 1e-300,
+        "{what}: double {} vs {want}, err {err:e} > radius {}",
+        d.value,
+        d.radius
+    );
+    assert!(
+        d.radius.to_f64() <= rel * want.norm().max(1.0),
+        "{what}: radius {} above {rel:e} relative",
+        d.radius
+    );
 }
 
 fn abs_diff(a: &Complex, b: &Complex) -> f64 {
@@ -118,19 +136,7 @@ fn double_path_kernel_is_within_its_estimate_of_the_40_digit_kernel() {
             let hi = f
                 .log_derivative(&Complex::with_val(200, (x, y)), Prec::digits(40).unwrap())
                 .unwrap();
-            let want = Complex64::new(hi.value.real().to_f64(), hi.value.imag().to_f64());
-            let err = (d.value - want).norm();
-            assert!(
-                err <= d.radius.to_f64() + 1e-300,
-                "{factor} at {x}+{y}i: double {} vs {want}, err {err:e} > radius {}",
-                d.value,
-                d.radius
-            );
-            assert!(
-                d.radius.to_f64() <= 1e-11 * want.norm().max(1.0),
-                "{factor} at {x}+{y}i: radius {} leaves fewer than 11 digits",
-                d.radius
-            );
+            within_estimate(&format!("{factor} at {x}+{y}i"), &d, &hi, 1e-11);
         }
     }
 }
@@ -335,19 +341,7 @@ fn sine_gordon_double_kernel_from_the_uniform_grid_is_within_its_estimate() {
             let hi = f
                 .log_derivative(&Complex::with_val(200, (x, y)), Prec::digits(40).unwrap())
                 .unwrap();
-            let want = Complex64::new(hi.value.real().to_f64(), hi.value.imag().to_f64());
-            let err = (d.value - want).norm();
-            assert!(
-                err <= d.radius.to_f64(),
-                "ξ={xi} θ={x}+{y}i: {} vs {want}: err {err:e} > radius {}",
-                d.value,
-                d.radius
-            );
-            assert!(
-                d.radius.to_f64() < 1e-12 * want.norm().max(1.0),
-                "ξ={xi} θ={x}+{y}i: radius {}",
-                d.radius
-            );
+            within_estimate(&format!("ξ={xi} θ={x}+{y}i"), &d, &hi, 1e-12);
         }
     }
 }

@@ -294,8 +294,12 @@ impl Expr {
     /// assert!(Expr::parse("a + pi").unwrap().derivative(&[("theta", Node::I)]).unwrap().is_none());
     /// ```
     pub fn derivative(&self, wrt: &[(&str, Node)]) -> Result<Option<Expr>> {
-        derivative::derivative(&self.node, wrt)
-            .map(|d| d.map(Expr::from_node))
+        self.differentiated(derivative::derivative(&self.node, wrt))
+    }
+
+    /// A derivative's tree as an expression, or why there is none.
+    fn differentiated(&self, d: std::result::Result<Option<Node>, String>) -> Result<Option<Expr>> {
+        d.map(|d| d.map(Expr::from_node))
             .map_err(|message| Error::Expression {
                 location: None,
                 expr: self.source.clone(),
@@ -316,14 +320,7 @@ impl Expr {
     /// assert_eq!(d.to_string(), "cosh(theta)*i*g + 2*(1/theta)");
     /// ```
     pub fn log_derivative(&self, wrt: &[(&str, Node)]) -> Result<Option<Expr>> {
-        derivative::log_derivative(&self.node, wrt)
-            .map(|d| d.map(Expr::from_node))
-            .map_err(|message| Error::Expression {
-                location: None,
-                expr: self.source.clone(),
-                column: None,
-                message,
-            })
+        self.differentiated(derivative::log_derivative(&self.node, wrt))
     }
 
     /// The value at double precision with a running error bound (see

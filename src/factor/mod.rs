@@ -12,7 +12,7 @@ mod pieces;
 
 pub use coef::Coef;
 pub use gamma_product::{
-    Condition, Convergence, Cost, FactorValue, GammaProduct, GammaTerm, Method, Plan,
+    Condition, Convergence, Cost, Detail, FactorValue, GammaProduct, GammaTerm, Method, Plan,
     Representation, Scale, StepReduction,
 };
 pub use pieces::{BarnesFactor, CddBlock, FiniteGamma};

@@ -30,8 +30,83 @@ pub struct Cost {
     pub representation: Representation,
     /// Estimated time in microseconds on the reference machine.
     pub micros: f64,
-    /// What the estimate counts, in words.
-    pub detail: String,
+    /// What the estimate counts (printed in words).
+    pub detail: Detail,
+}
+
+/// What a [`Cost`] counts. Kept as numbers and put into words only when
+/// printed: `Method::Auto` plans every evaluation, and formatting the words
+/// each time cost more than some of the evaluations.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Detail {
+    /// `log_gammas` log-gammas and, when estimated, the tail's multiplications.
+    Product {
+        /// Log-gammas of the explicit factors.
+        log_gammas: f64,
+        /// Multiplications in the tail (`None`: not estimated).
+        multiplications: Option<f64>,
+    },
+    /// The uniform rule of the double path.
+    Uniform {
+        /// Nodes.
+        nodes: usize,
+        /// Slope classes.
+        classes: f64,
+    },
+    /// The double-exponential rule, with the factors taken out.
+    DoubleExponential {
+        /// Nodes (estimated).
+        nodes: f64,
+        /// Slope classes.
+        classes: f64,
+        /// Log-gammas of the factors taken out.
+        log_gammas: f64,
+        /// Factors taken out.
+        peeled: usize,
+    },
+}
+
+impl fmt::Display for Detail {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match *self {
+            Detail::Product {
+                log_gammas,
+                multiplications: None,
+            } => write!(
+                f,
+                "at least {log_gammas:.0} log-gammas (tail not estimated)"
+            ),
+            Detail::Product {
+                log_gammas,
+                multiplications: Some(m),
+            } => write!(
+                f,
+                "{log_gammas:.0} log-gammas + about {m:.0} multiplications in the tail"
+            ),
+            Detail::Uniform { nodes, classes } => write!(
+                f,
+                "{nodes} nodes of the uniform rule × {classes:.0} slope class(es)"
+            ),
+            Detail::DoubleExponential {
+                nodes,
+                classes,
+                log_gammas,
+                peeled,
+            } => {
+                write!(
+                    f,
+                    "about {nodes:.0} double-exponential nodes × {classes:.0} slope class(es)"
+                )?;
+                if peeled > 0 {
+                    write!(
+                        f,
+                        " + {log_gammas:.0} log-gammas for the {peeled} factors taken out"
+                    )?;
+                }
+                Ok(())
+            }
+        }
+    }
 }
 
 /// What [`Method::Auto`] would do at a point, and why.
@@ -176,7 +251,10 @@ impl GammaProduct {
                         tail_terms: 0,
                     },
                     micros: lg * log_gamma_us(wp),
-                    detail: format!("at least {lg:.0} log-gammas (tail not estimated)"),
+                    detail: Detail::Product {
+                        log_gammas: lg,
+                        multiplications: None,
+                    },
                 });
             }
         }
@@ -193,7 +271,10 @@ impl GammaProduct {
                 tail_terms: m,
             },
             micros: lg * log_gamma_us(wp) + muls * mul_us(wp),
-            detail: format!("{lg:.0} log-gammas + about {muls:.0} multiplications in the tail"),
+            detail: Detail::Product {
+                log_gammas: lg,
+                multiplications: Some(muls),
+            },
         })
     }
 
@@ -214,9 +295,7 @@ impl GammaProduct {
                 return Some(Cost {
                     representation: Representation::Integral { peeled: 0 },
                     micros: UNIFORM_SETUP_US + nodes as f64 * classes * UNIFORM_NODE_US,
-                    detail: format!(
-                        "{nodes} nodes of the uniform rule × {classes:.0} slope class(es)"
-                    ),
+                    detail: Detail::Uniform { nodes, classes },
                 });
             }
         }
@@ -243,14 +322,12 @@ impl GammaProduct {
         Some(Cost {
             representation: Representation::Integral { peeled: peel },
             micros: nodes * classes * exp_us(node_bits) + lg * log_gamma_us(wp) + series,
-            detail: format!(
-                "about {nodes:.0} double-exponential nodes × {classes:.0} slope class(es){}",
-                if peel > 0 {
-                    format!(" + {lg:.0} log-gammas for the {peel} factors taken out")
-                } else {
-                    String::new()
-                }
-            ),
+            detail: Detail::DoubleExponential {
+                nodes,
+                classes,
+                log_gammas: lg,
+                peeled: peel,
+            },
         })
     }
 }

@@ -178,7 +178,7 @@ impl GammaProduct {
             let n = self.terms[j].power;
             let ns = n as f64 * s;
             let sz = z * s;
-            let sz_abs = sz.norm();
+            let sz_abs = sz.re.abs() + sz.im.abs(); // ≥ |sz|, no hypot
             for k in 0..kmax {
                 let base = a * k as f64 + b;
                 let w = sz + base;
@@ -197,7 +197,7 @@ impl GammaProduct {
                 // ψ's error, and the rounding of w (4 ulps of its terms)
                 // through |ψ'(w)|.
                 rad += ns.abs() * (e + 4.0 * EPS * scale.max(1.0) * trigamma_bound(w));
-                abs_sum += t.norm();
+                abs_sum += t.re.abs() + t.im.abs();
                 // Neumaier summation per component.
                 let y = sum + t;
                 comp.re += if sum.re.abs() >= t.re.abs() {

@@ -38,7 +38,7 @@ mod integral;
 mod product;
 mod trapezoid;
 
-pub use cost::{Cost, Plan};
+pub use cost::{Cost, Detail, Plan};
 
 use super::coef::Coef;
 use crate::error::{Error, Result};

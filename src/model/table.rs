@@ -84,10 +84,11 @@ impl Model {
             .collect();
         let eval = |t: Complex64| f.branch_sample(t);
         let c64 = |v: &C| Complex64::new(v.re_f64(), v.im_f64());
-        // The continued Im log S at each point (None where it failed).
+        // The continued Im log S at each point (an error where the point
+        // itself or its continuation failed).
         let mut phases: Vec<Result<f64>> = Vec::with_capacity(n);
-        // (point, kernel) of the last point with a phase.
-        let mut last: Option<(Complex64, Complex64)> = None;
+        // (point, kernel, continued phase) of the last point with a phase.
+        let mut last: Option<(Complex64, Complex64, f64)> = None;
         for (t, c) in points.iter().zip(&computed) {
             let here = c64(t);
             let Ok((sum, k)) = c else {
@@ -101,12 +102,7 @@ impl Model {
             let kernel = c64(&k.value);
             let im = match last {
                 None => branch::continue_phase(&eval, self.base_f64, f.base_phase, here),
-                Some((p, p_kernel)) => {
-                    let prev_im = *phases
-                        .iter()
-                        .rev()
-                        .find_map(|r| r.as_ref().ok())
-                        .expect("a phase exists when `last` is set");
+                Some((p, p_kernel, prev_im)) => {
                     let h = here - p;
                     // The representative of the principal phase nearest
                     // the previous phase plus the trapezoidal change.
@@ -123,8 +119,8 @@ impl Model {
                     }
                 }
             };
-            if im.is_ok() {
-                last = Some((here, kernel));
+            if let Ok(v) = im {
+                last = Some((here, kernel, v));
             }
             phases.push(im);
         }

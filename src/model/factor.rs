@@ -505,6 +505,10 @@ fn twice<C: ComplexField>(
 
 /// A `rug` value on either path.
 pub(crate) fn from_rug<C: ComplexField>(v: &Complex, wp: u32) -> C {
+    if C::MAX_PREC.is_some() {
+        // Rounded to nearest, without two MPFR temporaries per call.
+        return C::from_f64(v.real().to_f64(), v.imag().to_f64(), 53);
+    }
     let re = rug::Float::with_val(wp, v.real());
     let im = rug::Float::with_val(wp, v.imag());
     C::from_reals(C::Real::from_float(&re), C::Real::from_float(&im))

@@ -1172,3 +1172,30 @@ fn running_error_bound_covers_the_double_error() {
         "bound/error up to {worst_ratio:e}: {worst}"
     );
 }
+
+/// Where the first-order rules cannot be trusted the bound declines (and
+/// the caller evaluates twice instead): an operand of sqrt or log that may
+/// lie on either side of the negative axis, tan within its operand's error
+/// of a pole, an integer power of an operand known only roughly. Common
+/// practice: a running error bound is a first-order estimate.
+#[test]
+fn running_error_bound_declines_where_first_order_fails() {
+    use num_complex::Complex64;
+    let at = |text: &str, t: f64| {
+        Expr::parse(text)
+            .unwrap()
+            .eval_with_bound(&[("theta", Complex64::new(t, 0.0))], &|n| n == "theta")
+    };
+    // θ − 0.1·3 is −5.6e-17 in doubles, within its own rounding of 0.
+    assert!(at("sqrt(-1 + i*(theta - 0.1*3))", 0.3).is_none());
+    assert!(at("log(-1 + i*(theta - 0.1*3))", 0.3).is_none());
+    // 1e12 + θ − 1e12 carries an error of about 1e-4: tan near π/2 declines.
+    assert!(at("tan(1e12 + theta - 1e12)", 1.57075).is_none());
+    // (1e14 + θ − 1e14)^40: the base is known to about 2%, and 40 × 2% is
+    // not first order; (1e12 + θ − 1e12)^40 (2e-4 relative) still is.
+    assert!(at("(1e14 + theta - 1e14)^40", 1.3).is_none());
+    assert!(at("(1e12 + theta - 1e12)^40", 1.3).is_some());
+    // Away from these, the same expressions are bounded.
+    assert!(at("sqrt(-1 + i*(theta - 0.1*3))", 0.5).is_some());
+    assert!(at("tan(theta)", 1.2).is_some());
+}

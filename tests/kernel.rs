@@ -345,3 +345,33 @@ fn sine_gordon_double_kernel_from_the_uniform_grid_is_within_its_estimate() {
         }
     }
 }
+
+/// A block with sin πα tiny (α = 10⁻⁶, its pole and zero nearly meet at
+/// θ = 0): near θ = 0 the kernel's denominator (1 − e²)² + 4e² sin²πα is
+/// dominated by the cancelling 1 − e², whose own error the estimate must
+/// carry. Double path against 40 digits (the closed form, common practice).
+#[test]
+fn block_kernel_estimate_covers_the_cancellation_near_zero() {
+    let m = Model::from_toml(
+        "[[factor]]\nname = \"S\"\n[[factor.piece]]\nkind = \"cdd\"\nblocks = [{ alpha = \"1/1000000\" }]\n",
+        "tiny.toml",
+    )
+    .unwrap();
+    let f = m.factor("S").unwrap();
+    for x in [1e-3, 3e-5, 1e-6, -2e-6, 0.2] {
+        let d = f
+            .log_derivative(&Complex64::new(x, 0.0), Prec::DOUBLE)
+            .unwrap();
+        let hi = f
+            .log_derivative(&Complex::with_val(200, (x, 0.0)), Prec::digits(40).unwrap())
+            .unwrap();
+        let want = Complex64::new(hi.value.real().to_f64(), hi.value.imag().to_f64());
+        let err = (d.value - want).norm();
+        assert!(
+            err <= d.radius.to_f64(),
+            "θ = {x}: {} vs {want}, err {err:e} > radius {}",
+            d.value,
+            d.radius
+        );
+    }
+}

@@ -98,7 +98,8 @@ pub(crate) fn bound<E: Env<Complex64> + ?Sized>(
                 .filter(|k| k.fract() == 0.0 && k.abs() <= 64.0)? as i32;
             let (v, eb) = r(b)?;
             let a = v.norm();
-            if a == 0.0 || a <= 4.0 * eb {
+            // First order in eb/a holds while k·eb/a is small.
+            if a == 0.0 || k.unsigned_abs() as f64 * eb >= 0.1 * a {
                 return None;
             }
             let p = v.powi(k);
@@ -133,7 +134,7 @@ fn elementary(f: Builtin, u: Complex64, eu: f64) -> Option<(Complex64, f64)> {
         }
         Builtin::Log => {
             let a = u.norm();
-            if a == 0.0 || a <= 4.0 * eu {
+            if a == 0.0 || a <= 4.0 * eu || near_cut(u, eu) {
                 return None;
             }
             let v = if u.im == 0.0 {
@@ -145,7 +146,7 @@ fn elementary(f: Builtin, u: Complex64, eu: f64) -> Option<(Complex64, f64)> {
         }
         Builtin::Sqrt => {
             let a = u.norm();
-            if a == 0.0 || a <= 4.0 * eu {
+            if a == 0.0 || a <= 4.0 * eu || near_cut(u, eu) {
                 return None;
             }
             let v = u.sqrt();
@@ -162,7 +163,9 @@ fn elementary(f: Builtin, u: Complex64, eu: f64) -> Option<(Complex64, f64)> {
                 (u.sinh(), u.cosh(), ch(u.re))
             };
             let a = c.norm();
-            if a == 0.0 {
+            // The first-order rule needs the operand's error well inside the
+            // distance to the pole (about |cos u|, |cosh u|).
+            if a == 0.0 || eu >= 0.25 * a {
                 return None;
             }
             let v = s / c;
@@ -181,4 +184,11 @@ fn elementary(f: Builtin, u: Complex64, eu: f64) -> Option<(Complex64, f64)> {
         }
         _ => return None,
     })
+}
+
+/// Whether `u`, known to within `eu`, may lie on either side of the cut of
+/// log and sqrt along the negative real axis: then the computed branch may
+/// be the other one, and no bound is given.
+pub(crate) fn near_cut(u: Complex64, eu: f64) -> bool {
+    u.re < 0.0 && u.im.abs() <= eu
 }

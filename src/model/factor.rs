@@ -339,7 +339,9 @@ impl ExpressionPiece {
             (None, true) => (v, e),
             (None, false) => {
                 let a = v.norm();
-                if a == 0.0 || e > 0.25 * a {
+                // Near the negative axis the principal log's branch is not
+                // decided by the value's accuracy: evaluate twice instead.
+                if a == 0.0 || e > 0.25 * a || (v.re < 0.0 && v.im.abs() <= e) {
                     return None;
                 }
                 let v = if v.im == 0.0 {

@@ -398,6 +398,7 @@ impl CddBlock {
         let e = (-tp).exp();
         let e2 = e.clone().square();
         let one_m_e2 = -(e2.clone().add_i64(-1));
+        let one_m_e2_l2 = one_m_e2.log2_abs();
         let a = one_m_e2.square();
         let num = e.clone().mul_pow2(1) * &e2.clone().add_i64(1);
         let (a_l2, e2_l2) = (a.log2_abs(), e2.log2_abs());
@@ -417,9 +418,13 @@ impl CddBlock {
             let g = num.clone() / &den;
             let t = g.mul_real(&s).mul_i().mul_i64(-2 * n);
             let t_l2 = t.log2_abs();
-            // Condition of den: (|a| + 4|e²|s²)/|den|, plus s's own error.
-            let cond_l2 = log2_add(a_l2, e2_l2 + 2.0 + 2.0 * s.log2_abs()) - den.log2_abs();
-            let rel = log2_add(cond_l2 + w + 3.0, al.s_rel_l2 + 1.0);
+            // Condition of den: (|a| + 4|e²|s²)/|den|, plus s's own error,
+            // plus the error of a = (1 − e²)² itself, 2|1 − e²|(1 + |e²|)·2^−wp,
+            // which dominates where 1 − e² cancels (θ near 0 or iπ).
+            let den_l2 = den.log2_abs();
+            let cond_l2 = log2_add(a_l2, e2_l2 + 2.0 + 2.0 * s.log2_abs()) - den_l2;
+            let a_err_l2 = 1.0 + one_m_e2_l2 + log2_add(0.0, e2_l2) - den_l2;
+            let rel = log2_add(log2_add(cond_l2, a_err_l2) + w + 3.0, al.s_rel_l2 + 1.0);
             rad += Radius::from_log2(t_l2 + log2_add(rel, w + 3.0));
             abs_sum += Radius::from_log2(t_l2);
             sum += &t;
